@@ -1,0 +1,7 @@
+// Public surface of @kiln/shared: API contracts used by every part, and (from
+// ./flow and ./spec) the flow engine and run-spec schema.
+export * from './api/roles';
+export * from './api/errors';
+export * from './api/zod-details';
+export * from './api/auth.schemas';
+export * from './api/health.schemas';
