@@ -1,0 +1,49 @@
+// A Kiln worker host: registers itself, heartbeats, and (with the queue, in a
+// later release) runs simulations. Point any number of hosts at the same
+// REDIS_URL and DATABASE_URL.
+import { Redis } from 'ioredis';
+import { createDatabase } from '@kiln/shared/db';
+import { loadWorkerConfig } from './config/worker-config';
+import { Heartbeat } from './heartbeat/heartbeat';
+
+const log = (message: string) => console.log(`[kiln worker ${process.pid}] ${message}`);
+
+async function main(): Promise<void> {
+  const config = loadWorkerConfig();
+  const db = createDatabase({ connectionString: config.DATABASE_URL, max: 4, applicationName: 'kiln-worker' });
+  const redis = new Redis(config.REDIS_URL, { maxRetriesPerRequest: null });
+  redis.on('error', (error) => log(`redis: ${error.message}`));
+  await redis.ping();
+
+  const startedAt = new Date();
+  const identity = {
+    id: `${config.KILN_WORKER_HOST}:${process.pid}:${startedAt.getTime()}`,
+    host: config.KILN_WORKER_HOST,
+    pid: process.pid,
+    slots: config.KILN_WORKER_SLOTS,
+    startedAt,
+  };
+  const heartbeat = new Heartbeat(db, identity, config.KILN_HEARTBEAT_SECONDS * 1000, (error) =>
+    log(`heartbeat failed, will retry: ${error instanceof Error ? error.message : String(error)}`),
+  );
+  await heartbeat.start();
+  log(`ready on ${identity.host} with ${identity.slots} slot(s)`);
+
+  let stopping = false;
+  const shutdown = async (signal: string) => {
+    if (stopping) return;
+    stopping = true;
+    log(`${signal}: shutting down`);
+    await heartbeat.stop().catch(() => undefined);
+    redis.disconnect();
+    await db.destroy();
+    process.exit(0);
+  };
+  process.on('SIGTERM', () => void shutdown('SIGTERM'));
+  process.on('SIGINT', () => void shutdown('SIGINT'));
+}
+
+main().catch((error: unknown) => {
+  console.error(`[kiln worker] ${error instanceof Error ? error.message : String(error)}`);
+  process.exit(1);
+});
