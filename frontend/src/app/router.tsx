@@ -1,0 +1,36 @@
+import { createBrowserRouter, Outlet, RouterProvider } from 'react-router-dom';
+import { FullPageSpinner } from '@/components/full-page-spinner';
+import { paths } from '@/config/paths';
+import { RouteError } from './routes/route-error';
+
+// Every page is its own lazily loaded module (see ./routes); each exports
+// `Component` and, where it reads data, a `loader` that warms the query cache.
+const router = createBrowserRouter([
+  {
+    element: <Outlet />,
+    errorElement: <RouteError />,
+    hydrateFallbackElement: <FullPageSpinner />,
+    children: [
+      { path: paths.signIn.path, lazy: () => import('./routes/sign-in') },
+      {
+        // Signed-in area: checks the session and draws the shell around the pages.
+        lazy: () => import('./routes/app-shell'),
+        children: [
+          {
+            // Errors inside a page keep the shell, so navigation still works.
+            errorElement: <RouteError />,
+            children: [
+              { index: true, lazy: () => import('./routes/overview') },
+              { path: paths.lab.path, lazy: () => import('./routes/lab') },
+              { path: '*', lazy: () => import('./routes/not-found') },
+            ],
+          },
+        ],
+      },
+    ],
+  },
+]);
+
+export function AppRouter() {
+  return <RouterProvider router={router} />;
+}
