@@ -7,7 +7,9 @@ export function RouteError() {
   const error = useRouteError();
   const shown = isRouteErrorResponse(error) ? `${error.status} ${error.statusText}` : error;
   // A failed lazy import usually means a new version of Kiln was deployed.
-  const chunkFailed = error instanceof TypeError && /dynamically imported module|import/i.test(error.message);
+  const chunkFailed =
+    error instanceof TypeError &&
+    /dynamically imported module|importing a module script failed/i.test(error.message);
   return (
     <ErrorPanel
       error={chunkFailed ? 'Part of the app could not be loaded; Kiln may have been updated. Reload the page.' : shown}

@@ -57,22 +57,23 @@ export function SignInForm({ onSignedIn }: { onSignedIn: (name: string) => void 
   const signIn = useSignIn();
   const [failure, setFailure] = useState<FailureText | null>(null);
 
-  const submit = (values: LoginRequest) => {
+  const submit = async (values: LoginRequest) => {
     setFailure(null);
-    const parsed = loginRequestSchema.parse(values);
-    signIn.mutate(parsed, {
-      onSuccess: (response) => onSignedIn(response.user.name),
-      onError: (error) => {
-        if (error instanceof ApiRequestError && error.status === 400 && error.details.length > 0) {
-          form.setFields(
-            error.details
-              .filter((detail) => detail.path === 'email' || detail.path === 'password')
-              .map((detail) => ({ name: detail.path as keyof LoginRequest, errors: [detail.message] })),
-          );
-        }
-        setFailure(explainSignInFailure(error));
-      },
-    });
+    try {
+      // mutateAsync rather than mutate's callbacks: a successful sign-in re-renders
+      // the page into a redirect, and the callbacks would not run once unmounted.
+      const response = await signIn.mutateAsync(loginRequestSchema.parse(values));
+      onSignedIn(response.user.name);
+    } catch (error) {
+      if (error instanceof ApiRequestError && error.status === 400 && error.details.length > 0) {
+        form.setFields(
+          error.details
+            .filter((detail) => detail.path === 'email' || detail.path === 'password')
+            .map((detail) => ({ name: detail.path as keyof LoginRequest, errors: [detail.message] })),
+        );
+      }
+      setFailure(explainSignInFailure(error));
+    }
   };
 
   return (
@@ -86,8 +87,9 @@ export function SignInForm({ onSignedIn }: { onSignedIn: (name: string) => void 
       disabled={signIn.isPending}
       className="sign-in-form"
     >
+      {/* A text input, not type="email": the browser's own check would pre-empt the schema's message. */}
       <Form.Item label="E-mail" name="email" rules={[fieldRule('email')]} validateFirst>
-        <Input type="email" autoComplete="username" autoFocus inputMode="email" />
+        <Input autoComplete="username" autoFocus inputMode="email" spellCheck={false} autoCapitalize="off" />
       </Form.Item>
       <Form.Item label="Password" name="password" rules={[fieldRule('password')]} validateFirst>
         <Input.Password autoComplete="current-password" />
