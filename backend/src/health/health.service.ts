@@ -39,7 +39,7 @@ export class HealthService {
   async check(): Promise<HealthResponse> {
     const [db, redis] = await Promise.all([
       probe(() => sql`SELECT 1`.execute(this.db)),
-      probe(() => this.redis.ping()),
+      probe(() => this.pingRedis()),
     ]);
     const workers = db.status === 'up' ? await this.workerCounts().catch(() => ({ alive: 0, stale: 0, slots: 0 })) : { alive: 0, stale: 0, slots: 0 };
     return {
@@ -49,6 +49,21 @@ export class HealthService {
       workers,
       time: new Date().toISOString(),
     };
+  }
+
+  /** Pings Redis, first waiting for a connection that is still being made. */
+  private async pingRedis(): Promise<string> {
+    if (this.redis.status !== 'ready') {
+      await new Promise<void>((resolve, reject) => {
+        const onReady = () => (clearTimeout(timer), resolve());
+        const timer = setTimeout(() => {
+          this.redis.off('ready', onReady);
+          reject(new Error(`not connected (${this.redis.status})`));
+        }, PROBE_TIMEOUT_MS);
+        this.redis.once('ready', onReady);
+      });
+    }
+    return this.redis.ping();
   }
 
   private async workerCounts(): Promise<HealthResponse['workers']> {

@@ -11,7 +11,8 @@ export function subjectOf(raw: string): string {
   const headers = (headerEnd === -1 ? raw : raw.slice(0, headerEnd)).replace(/\r?\n[ \t]+/g, ' ');
   const match = /^subject:[ \t]*(.*)$/im.exec(headers);
   if (!match) return '(no subject)';
-  return match[1].replace(/=\?([^?]+)\?([bBqQ])\?([^?]*)\?=/g, (_all, charset: string, encoding: string, text: string) => {
+  // Whitespace between adjacent encoded words is not part of the text (RFC 2047, section 6.2).
+  return match[1].replace(/(\?=)\s+(?==\?)/g, '$1').replace(/=\?([^?]+)\?([bBqQ])\?([^?]*)\?=/g, (_all, charset: string, encoding: string, text: string) => {
     const bytes =
       encoding.toUpperCase() === 'B'
         ? Buffer.from(text, 'base64')

@@ -4,8 +4,12 @@ import { fileURLToPath } from 'node:url';
 
 // Every part's tests run from one `vitest run`. Unit tests sit beside the code;
 // cross-part tests live in test/ and expect the services that scripts/test.sh starts.
-const sharedSource = fileURLToPath(new URL('./shared/src/index.ts', import.meta.url));
-const alias = { '@kiln/shared': sharedSource };
+// Tests import the shared package's TypeScript source, so no build is needed for them.
+const source = (file: string) => fileURLToPath(new URL(`./shared/src/${file}`, import.meta.url));
+const alias = [
+  { find: /^@kiln\/shared$/, replacement: source('index.ts') },
+  { find: /^@kiln\/shared\/db$/, replacement: source('db/index.ts') },
+];
 
 export default defineConfig({
   test: {
