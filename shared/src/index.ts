@@ -5,3 +5,5 @@ export * from './api/errors';
 export * from './api/zod-details';
 export * from './api/auth.schemas';
 export * from './api/health.schemas';
+export * from './flow';
+export * from './spec';

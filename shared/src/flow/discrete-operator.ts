@@ -1,0 +1,175 @@
+import type { FlowModel } from './flow-model';
+import { warp } from './flow-model';
+
+/**
+ * The variational finite-volume operator (numerics.md §2). On cells [r_j, r_{j+1}]
+ * (width Δ_j, midpoint r̄_j, slope s_j = (h_{j+1} − h_j)/Δ_j, h̄_j = (h_j + h_{j+1})/2)
+ * the discrete energy is the midpoint rule of §1's energy:
+ *
+ *   D_h = |S^(m−1)| Σ_j [ ½ a_j Δ_j P(h̄_j) s_j² + ½ c_j Q(h̄_j) ],
+ *   a_j = g(r̄_j)^(m−1),  c_j = (m−1) Δ_j g(r̄_j)^(m−3),   P = ρ², Q = f².
+ *
+ * (This is P1 finite elements with midpoint quadrature, hence second order.) The
+ * flow is its gradient over the lumped mass M_i = |S^(m−1)| P(h_i) V_i with
+ * V_i = ½(a_{i−1}Δ_{i−1} + a_iΔ_i):   M_i ḣ_i = −∂D_h/∂h_i,  i.e. ḣ_i = τ_i, the
+ * discrete tension; so dD_h/dt = −Σ M_i τ_i² = −‖τ‖_h² exactly (§1, §4.7). At a
+ * pole g(r̄_0) = r̄_0 > 0, so no special formula is needed: with h ≈ c·r the
+ * first cell's terms are exact for linear h.
+ *
+ * The common factor |S^(m−1)| is left out of G and H below (it cancels in the flow).
+ */
+export class DiscreteOperator {
+  /** Number of cells; nodes are 0..cells, nodes 0 and cells carry Dirichlet values. */
+  readonly cells: number;
+  readonly r: Float64Array;
+  readonly dr: Float64Array;
+  readonly rMid: Float64Array;
+  /** a_j = g(r̄_j)^(m−1). */
+  readonly a: Float64Array;
+  /** c_j = (m−1) Δ_j g(r̄_j)^(m−3). */
+  readonly c: Float64Array;
+  /** (m−1)/g(r̄_j)², for |∇u|². */
+  readonly potential: Float64Array;
+  /** V_i, the dual-cell volume of the lumped mass. */
+  readonly volume: Float64Array;
+  /** Scratch for the target values [P, P', P'', Q, Q', Q'']. */
+  private readonly tv = new Float64Array(6);
+
+  constructor(
+    readonly model: FlowModel,
+    r: Float64Array,
+  ) {
+    const n = r.length - 1;
+    this.cells = n;
+    this.r = r;
+    this.dr = new Float64Array(n);
+    this.rMid = new Float64Array(n);
+    this.a = new Float64Array(n);
+    this.c = new Float64Array(n);
+    this.potential = new Float64Array(n);
+    this.volume = new Float64Array(n + 1);
+    const m = model.m;
+    for (let j = 0; j < n; j++) {
+      const d = r[j + 1]! - r[j]!;
+      const rm = 0.5 * (r[j]! + r[j + 1]!);
+      const g = model.domain === 'sphere' && model.rightPole && rm > 0.5 * Math.PI
+        ? Math.sin(Math.PI - rm) // distance to the far pole keeps relative accuracy there
+        : warp(model.domain, rm);
+      this.dr[j] = d;
+      this.rMid[j] = rm;
+      this.a[j] = Math.pow(g, m - 1);
+      this.c[j] = (m - 1) * d * Math.pow(g, m - 3);
+      this.potential[j] = (m - 1) / (g * g);
+    }
+    for (let i = 1; i < n; i++) {
+      this.volume[i] = 0.5 * (this.a[i - 1]! * this.dr[i - 1]! + this.a[i]! * this.dr[i]!);
+    }
+    this.volume[0] = 0.5 * this.a[0]! * this.dr[0]!;
+    this.volume[n] = 0.5 * this.a[n - 1]! * this.dr[n - 1]!;
+  }
+
+  /**
+   * Gradient G = ∂D_h/∂h (without |S^(m−1)|) into `grad`; with `diag`/`upper` also the
+   * tridiagonal Hessian (upper[i] couples i and i+1). Returns D_h/|S^(m−1)|.
+   */
+  assemble(h: Float64Array, grad: Float64Array, diag: Float64Array | null, upper: Float64Array | null): number {
+    const n = this.cells;
+    const tv = this.tv;
+    const target = this.model.target;
+    const dr = this.dr;
+    const aw = this.a;
+    const cw = this.c;
+    grad.fill(0);
+    if (diag) diag.fill(0);
+    let energy = 0;
+    let hl = h[0]!;
+    for (let j = 0; j < n; j++) {
+      const hr = h[j + 1]!;
+      const d = dr[j]!;
+      const a = aw[j]!;
+      const c = cw[j]!;
+      const s = (hr - hl) / d;
+      target.evaluate(0.5 * (hl + hr), tv);
+      const P = tv[0]!;
+      const P1 = tv[1]!;
+      const Q = tv[3]!;
+      const Q1 = tv[4]!;
+      const aP = a * P;
+      const A = aP * s;
+      const B = 0.25 * (a * d * P1 * s * s + c * Q1);
+      grad[j] = grad[j]! - A + B;
+      grad[j + 1] = grad[j + 1]! + A + B;
+      energy += 0.5 * (aP * d * s * s + c * Q);
+      if (diag !== null && upper !== null) {
+        const C0 = 0.125 * (a * d * tv[2]! * s * s + c * tv[5]!);
+        const C1 = 0.5 * a * P1 * s;
+        const k = aP / d;
+        diag[j] = diag[j]! + k - 2 * C1 + C0;
+        diag[j + 1] = diag[j + 1]! + k + 2 * C1 + C0;
+        upper[j] = C0 - k;
+      }
+      hl = hr;
+    }
+    return energy;
+  }
+
+  /** D_h/|S^(m−1)| alone (midpoint rule of §1's energy). */
+  energy(h: Float64Array): number {
+    const n = this.cells;
+    const tv = this.tv;
+    const target = this.model.target;
+    let energy = 0;
+    for (let j = 0; j < n; j++) {
+      const s = (h[j + 1]! - h[j]!) / this.dr[j]!;
+      target.evaluate(0.5 * (h[j]! + h[j + 1]!), tv);
+      energy += 0.5 * (this.a[j]! * tv[0]! * this.dr[j]! * s * s + this.c[j]! * tv[3]!);
+    }
+    return energy;
+  }
+
+  /**
+   * τ_i = −G_i / (P(h_i) V_i) at interior nodes (0 at the Dirichlet ends) into `tau`,
+   * given the gradient. Returns Σ P(h_i) V_i τ_i² (‖τ‖_h² without |S^(m−1)|).
+   */
+  tension(h: Float64Array, grad: Float64Array, tau: Float64Array): number {
+    const n = this.cells;
+    const target = this.model.target;
+    let norm2 = 0;
+    tau[0] = 0;
+    tau[n] = 0;
+    for (let i = 1; i < n; i++) {
+      const mass = target.rhoSquared(h[i]!) * this.volume[i]!;
+      const t = -grad[i]! / mass;
+      tau[i] = t;
+      norm2 += mass * t * t;
+    }
+    return norm2;
+  }
+
+  /**
+   * max over cells of |∇u| = sqrt(P(h̄) s² + (m−1) Q(h̄)/g²), its cell index, and the
+   * center integral Σ cos r̄_j e_j a_j Δ_j (numerics.md §1, "center") in out[0..2].
+   */
+  gradientAndCenter(h: Float64Array, out: Float64Array): void {
+    const n = this.cells;
+    const tv = this.tv;
+    const target = this.model.target;
+    let best = -1;
+    let at = 0;
+    let center = 0;
+    const sphere = this.model.domain === 'sphere';
+    for (let j = 0; j < n; j++) {
+      const s = (h[j + 1]! - h[j]!) / this.dr[j]!;
+      target.evaluate(0.5 * (h[j]! + h[j + 1]!), tv);
+      const e2 = tv[0]! * s * s + this.potential[j]! * tv[3]!;
+      if (e2 > best) {
+        best = e2;
+        at = j;
+      }
+      if (sphere) center += Math.cos(this.rMid[j]!) * 0.5 * e2 * this.a[j]! * this.dr[j]!;
+    }
+    out[0] = Math.sqrt(best);
+    out[1] = at;
+    out[2] = center;
+  }
+}

@@ -1,0 +1,71 @@
+import { estimateBlowup, type BlowupEstimate, type BlowupKind } from './blowup-fit';
+import { historyRows } from './flow-history';
+import { runOutcome, runTime, type FlowOutcome, type FlowRun, type OutcomeReason } from './flow-run';
+import type { SymmetryUsed } from './flow-model';
+
+/** The result object of numerics.md §5 (what `npm run -s flow` prints). */
+export interface FlowSummary {
+  outcome: FlowOutcome | null;
+  /** Which indicator ended the run (an addition to §5, for humans). */
+  reason: OutcomeReason | null;
+  tFinal: number;
+  steps: number;
+  gridPoints: number;
+  energyInitial: number;
+  energyFinal: number;
+  tensionFinal: number;
+  gradMaxFinal: number;
+  /** Center X on the sphere domain (0 under reflection symmetry); null on the ball. */
+  center: number | null;
+  symmetry: SymmetryUsed;
+  cpuSeconds: number;
+  blowup: {
+    T: number | null;
+    exponent: number | null;
+    kind: BlowupKind;
+    confidence: number;
+    /** Additions to §5: one-sigma uncertainties of T and the exponent. */
+    TUncertainty: number | null;
+    exponentUncertainty: number | null;
+  } | null;
+}
+
+/** Full blow-up evidence from the run's history (any time; the summary attaches it to `blowup` outcomes). */
+export function blowupEstimate(run: FlowRun): BlowupEstimate {
+  return estimateBlowup(historyRows(run.history, run.s.historyHead, run.s.historyCount));
+}
+
+/**
+ * The §5 summary of a run. `cpuSeconds` is measured by the caller (the engine
+ * never reads clocks). `blowup` is filled for the `blowup` outcome only.
+ */
+export function summarizeFlowRun(run: FlowRun, cpuSeconds = 0): FlowSummary {
+  const { outcome, reason } = runOutcome(run);
+  let blowup: FlowSummary['blowup'] = null;
+  if (outcome === 'blowup') {
+    const e = blowupEstimate(run);
+    blowup = {
+      T: e.T,
+      exponent: e.exponent,
+      kind: e.kind,
+      confidence: e.confidence,
+      TUncertainty: e.TUncertainty,
+      exponentUncertainty: e.exponentUncertainty,
+    };
+  }
+  return {
+    outcome,
+    reason,
+    tFinal: runTime(run),
+    steps: run.s.step,
+    gridPoints: run.r.length,
+    energyInitial: run.s.energyInitial,
+    energyFinal: run.energy,
+    tensionFinal: run.tension,
+    gradMaxFinal: run.gradMax,
+    center: run.model.domain === 'sphere' ? run.center : null,
+    symmetry: run.model.symmetry,
+    cpuSeconds,
+    blowup,
+  };
+}

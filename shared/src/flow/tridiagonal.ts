@@ -1,0 +1,34 @@
+/**
+ * Thomas algorithm for a symmetric-pattern tridiagonal system on the interior
+ * nodes lo..hi (inclusive): diag[i] x_i + upper[i−1] x_{i−1} + upper[i] x_{i+1} = rhs[i].
+ * `lower` may differ from `upper` (pass the same array for a symmetric matrix).
+ * Overwrites `rhs` with the solution; `work` is scratch of the same length.
+ * O(N), no allocation, no pivoting: the matrices here are M + θ·H with a positive
+ * lumped mass M, diagonally dominant for the step sizes the controller accepts.
+ * Returns false when a pivot is not a finite non-zero number (the caller treats it
+ * as a Newton failure and shrinks the step).
+ */
+export function solveTridiagonal(
+  lo: number,
+  hi: number,
+  lower: Float64Array,
+  diag: Float64Array,
+  upper: Float64Array,
+  rhs: Float64Array,
+  work: Float64Array,
+): boolean {
+  // Row i: lower[i−1]·x_{i−1} + diag[i]·x_i + upper[i]·x_{i+1} = rhs[i]
+  let pivot = diag[lo]!;
+  if (!(Math.abs(pivot) > 0) || !Number.isFinite(pivot)) return false;
+  rhs[lo] = rhs[lo]! / pivot;
+  for (let i = lo + 1; i <= hi; i++) {
+    work[i - 1] = upper[i - 1]! / pivot;
+    pivot = diag[i]! - lower[i - 1]! * work[i - 1]!;
+    if (!(Math.abs(pivot) > 0) || !Number.isFinite(pivot)) return false;
+    rhs[i] = (rhs[i]! - lower[i - 1]! * rhs[i - 1]!) / pivot;
+  }
+  for (let i = hi - 1; i >= lo; i--) {
+    rhs[i] = rhs[i]! - work[i]! * rhs[i + 1]!;
+  }
+  return true;
+}
