@@ -8,6 +8,7 @@ import express, { type Express } from 'express';
  * deep links and reloads work. /api paths fall through to Nest (JSON 404s).
  */
 export function serveWebApp(app: Express, webDir: string): boolean {
+  webDir = path.resolve(webDir);
   const index = path.join(webDir, 'index.html');
   if (!existsSync(index)) return false;
   app.use(
