@@ -251,6 +251,33 @@ export function createFlowRun(spec: RunSpec): FlowRun {
   return run;
 }
 
+/**
+ * Rebuilds a run from checkpointed state (used by `deserializeCheckpoint`). The
+ * derived arrays are recomputed from r and h exactly as the running engine computes
+ * them, so the resumed run continues bit for bit.
+ */
+export function restoreFlowRun(
+  spec: RunSpec,
+  scalars: FlowScalars,
+  r: Float64Array,
+  h: Float64Array,
+  history: Float64Array,
+): FlowRun {
+  const model = createFlowModel(spec);
+  const run = {
+    spec,
+    model,
+    s: { ...scalars },
+    r,
+    h,
+    history,
+    samples: [],
+    scratch3: new Float64Array(3),
+  } as unknown as FlowRun;
+  rebuildDerived(run);
+  return run;
+}
+
 function initialStep(run: FlowRun): number {
   let fmax = 0;
   for (let i = 0; i < run.tau.length; i++) fmax = Math.max(fmax, Math.abs(run.tau[i]!));

@@ -25,3 +25,4 @@ export * from './flow-history';
 export * from './blowup-fit';
 export * from './flow-run';
 export * from './flow-summary';
+export * from './checkpoint-format';
