@@ -1,10 +1,11 @@
-// A Kiln worker host: registers itself, heartbeats, and (with the queue, in a
-// later release) runs simulations. Point any number of hosts at the same
-// REDIS_URL and DATABASE_URL.
+// A Kiln worker process: registers itself, heartbeats, and runs simulations from the
+// queue in sandboxed worker threads (KILN_WORKER_SLOTS at once). Point any number of
+// hosts at the same REDIS_URL and DATABASE_URL.
 import { Redis } from 'ioredis';
 import { createDatabase } from '@kiln/shared/db';
 import { loadWorkerConfig } from './config/worker-config';
 import { Heartbeat } from './heartbeat/heartbeat';
+import { RunWorkerPool } from './pool/run-worker-pool';
 
 const log = (message: string) => console.log(`[kiln worker ${process.pid}] ${message}`);
 
@@ -27,13 +28,16 @@ async function main(): Promise<void> {
     log(`heartbeat failed, will retry: ${error instanceof Error ? error.message : String(error)}`),
   );
   await heartbeat.start();
+  const pool = new RunWorkerPool(config, identity.id, log);
+  await pool.start();
   log(`ready on ${identity.host} with ${identity.slots} slot(s)`);
 
   let stopping = false;
   const shutdown = async (signal: string) => {
     if (stopping) return;
     stopping = true;
-    log(`${signal}: shutting down`);
+    log(`${signal}: shutting down (running jobs checkpoint and hand their runs back)`);
+    await pool.stop().catch((error: unknown) => log(`shutdown: ${error instanceof Error ? error.message : String(error)}`));
     await heartbeat.stop().catch(() => undefined);
     redis.disconnect();
     await db.destroy();

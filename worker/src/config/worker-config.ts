@@ -12,6 +12,12 @@ export const workerConfigSchema = z.object({
   KILN_CHECKPOINT_SECONDS: z.coerce.number().min(1).max(86_400).default(60),
   /** Seconds between heartbeats into the workers table (default 5). */
   KILN_HEARTBEAT_SECONDS: z.coerce.number().min(0.5).max(300).default(5),
+  /**
+   * Seconds a job's lock lasts without renewal (default 30). A killed worker's run is
+   * handed to another worker about this long after the kill; the same value is the
+   * stalled-job check interval.
+   */
+  KILN_JOB_LOCK_SECONDS: z.coerce.number().min(1).max(3_600).default(30),
   /** How this host names itself in the admin pages (default: the host name). */
   KILN_WORKER_HOST: z.string().min(1).default(os.hostname()),
 });
