@@ -3,9 +3,11 @@
 // (docs/run-lifecycle.md, "Admission"), and the engine run directly as the reference.
 import { spawn, type ChildProcess } from 'node:child_process';
 import { Queue } from 'bullmq';
+import { Redis } from 'ioredis';
 import { sql, type Kysely } from 'kysely';
 import {
   advanceFlowRun,
+  CHANNELS,
   createFlowRun,
   drainSamples,
   parseRunSpec,
@@ -15,6 +17,7 @@ import {
   summarizeFlowRun,
   type DiagnosticSample,
   type FlowSummary,
+  type RunEvent,
   type RunSpecInput,
 } from '@kiln/shared';
 import type { Database } from '@kiln/shared/db';
@@ -230,4 +233,13 @@ export function quickSpecs(): RunSpecInput[] {
       stop: { gradientBound: 1e4 },
     },
   ];
+}
+
+/** Collects the RunEvents workers publish on Redis. */
+export async function collectRunEvents(redisUrl: string): Promise<{ events: RunEvent[]; close(): void }> {
+  const subscriber = new Redis(redisUrl, { maxRetriesPerRequest: null });
+  const events: RunEvent[] = [];
+  subscriber.on('message', (_channel, text: string) => events.push(JSON.parse(text) as RunEvent));
+  await subscriber.subscribe(CHANNELS.runEvents);
+  return { events, close: () => subscriber.disconnect() };
 }
