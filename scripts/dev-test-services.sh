@@ -8,9 +8,9 @@ cd "$ROOT"
 source scripts/lib/common.sh
 source scripts/lib/postgres.sh
 source scripts/lib/redis.sh
-export KILN_DATA_DIR=${KILN_TEST_DATA_DIR:-$ROOT/.data-test}
-export KILN_PG_PORT=${KILN_TEST_PG_PORT:-55433}
-export KILN_REDIS_PORT=${KILN_TEST_REDIS_PORT:-56380}
+export KILN_DATA_DIR=${KILN_DEV_DATA_DIR:-$ROOT/.data-test}
+export KILN_PG_PORT=${KILN_DEV_PG_PORT:-55434}
+export KILN_REDIS_PORT=${KILN_DEV_REDIS_PORT:-56381}
 export KILN_PG_DATABASE=kiln_test KILN_PG_FSYNC=off
 mkdir -p "$KILN_DATA_DIR"
 case "${1:-start}" in

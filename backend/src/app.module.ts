@@ -8,13 +8,32 @@ import { DatabaseModule } from './database/database.module';
 import { HealthModule } from './health/health.module';
 import { RedisModule } from './redis/redis.module';
 import { UsersModule } from './users/users.module';
+import { CheckpointsModule } from './checkpoints/checkpoints.module';
+import { QueueModule } from './queue/queue.module';
+import { RunsModule } from './runs/runs.module';
+import { SchedulerModule } from './scheduler/scheduler.module';
+import { StudiesModule } from './studies/studies.module';
+import { SweepsModule } from './sweeps/sweeps.module';
 
 @Module({})
 export class AppModule {
   static forConfig(config: KilnConfig): DynamicModule {
     return {
       module: AppModule,
-      imports: [ConfigModule.forRoot(config), DatabaseModule, RedisModule, AuthModule, UsersModule, HealthModule],
+      imports: [
+        ConfigModule.forRoot(config),
+        DatabaseModule,
+        RedisModule,
+        QueueModule,
+        AuthModule,
+        UsersModule,
+        HealthModule,
+        StudiesModule,
+        SweepsModule,
+        RunsModule,
+        CheckpointsModule,
+        SchedulerModule,
+      ],
       providers: [{ provide: APP_FILTER, useClass: ApiExceptionFilter }],
     };
   }

@@ -7,3 +7,8 @@ export * from './api/auth.schemas';
 export * from './api/health.schemas';
 export * from './flow';
 export * from './spec';
+export * from './api/runs.schemas';
+export * from './jobs';
+export * from './sweeps';
+export * from './api/sweeps.schemas';
+export * from './api/studies.schemas';

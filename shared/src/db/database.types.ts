@@ -73,6 +73,85 @@ export interface MailMessagesTable {
   raw: string;
 }
 
+type Json<T> = ColumnType<T, string, string>;
+type JsonNullable<T> = ColumnType<T | null, string | null | undefined, string | null>;
+
+export type RunStateValue = 'queued' | 'waiting' | 'running' | 'paused' | 'finished' | 'failed' | 'cancelled';
+export type RunOutcomeValue = 'converged' | 'blowup' | 'time-limit' | 'numerics-failed' | 'degenerate';
+export type CheckpointReasonValue = 'interval' | 'pause' | 'outcome' | 'shutdown' | 'cancel' | 'cpu-budget' | 'start';
+
+export interface SweepsTable {
+  id: Generated<string>;
+  study_id: string;
+  owner_id: string;
+  name: string;
+  base_spec: Json<unknown>;
+  axes: Json<unknown>;
+  run_count: number;
+  created_at: Generated<Date>;
+}
+
+export interface RunsTable {
+  id: Generated<string>;
+  study_id: string;
+  sweep_id: string | null;
+  owner_id: string;
+  sweep_index: number | null;
+  axis_values: ColumnType<Record<string, number>, string | undefined, string>;
+  spec: Json<unknown>;
+  state: ColumnType<RunStateValue, RunStateValue | undefined, RunStateValue>;
+  wait_reason: string | null;
+  outcome: RunOutcomeValue | null;
+  outcome_reason: string | null;
+  summary: JsonNullable<unknown>;
+  progress: JsonNullable<unknown>;
+  error: string | null;
+  priority: Generated<number>;
+  parent_checkpoint_id: string | null;
+  resume_checkpoint_id: string | null;
+  control_request: 'pause' | 'cancel' | null;
+  attempt: Generated<number>;
+  dispatched_at: TimestampNullable;
+  lease: Generated<number>;
+  worker_id: string | null;
+  cpu_seconds: Generated<number>;
+  created_at: Generated<Date>;
+  started_at: TimestampNullable;
+  finished_at: TimestampNullable;
+  updated_at: Generated<Date>;
+}
+
+export interface CheckpointsTable {
+  id: Generated<string>;
+  run_id: string;
+  seq: number;
+  step: number;
+  t: number;
+  points: number;
+  reason: CheckpointReasonValue;
+  cpu_seconds: number;
+  size_bytes: number;
+  sha256: string;
+  state: Buffer;
+  created_at: Generated<Date>;
+}
+
+export interface RunMetricsTable {
+  run_id: string;
+  step: number;
+  t: number;
+  dt: number;
+  energy: number;
+  tension: number;
+  grad_max: number;
+  grad_max_at: number;
+  lambda: number;
+  center: number | null;
+  sigma: number | null;
+  points: number;
+  newton_iterations: number;
+}
+
 export interface Database {
   users: UsersTable;
   api_tokens: ApiTokensTable;
@@ -81,4 +160,8 @@ export interface Database {
   study_members: StudyMembersTable;
   workers: WorkersTable;
   mail_messages: MailMessagesTable;
+  sweeps: SweepsTable;
+  runs: RunsTable;
+  checkpoints: CheckpointsTable;
+  run_metrics: RunMetricsTable;
 }

@@ -1,0 +1,49 @@
+import { Body, Controller, Get, HttpCode, Param, Post, Res, StreamableFile } from '@nestjs/common';
+import type { Response } from 'express';
+import { ApiBearerAuth, ApiBody, ApiOperation, ApiTags } from '@nestjs/swagger';
+import { forkRequestSchema, idParamSchema, type ForkRequest, type Run } from '@kiln/shared';
+import { CurrentUser } from '../auth/auth.decorators';
+import type { AuthenticatedUser } from '../auth/authenticated-user';
+import { openApiSchema } from '../common/openapi';
+import { ZodValidationPipe } from '../common/zod-validation.pipe';
+import { CheckpointsService } from './checkpoints.service';
+
+const id = new ZodValidationPipe(idParamSchema);
+
+@ApiTags('checkpoints')
+@ApiBearerAuth()
+@Controller('checkpoints')
+export class CheckpointsController {
+  constructor(private readonly checkpoints: CheckpointsService) {}
+
+  @Get(':id/file')
+  @ApiOperation({ summary: 'The checkpoint file (Kiln checkpoint format, docs/checkpoint-format.md)' })
+  async file(
+    @CurrentUser() user: AuthenticatedUser,
+    @Param('id', id) checkpointId: string,
+    @Res({ passthrough: true }) response: Response,
+  ): Promise<StreamableFile> {
+    const { bytes, name, sha256 } = await this.checkpoints.file(user, checkpointId);
+    response.setHeader('X-Kiln-SHA256', sha256);
+    return new StreamableFile(bytes, { type: 'application/octet-stream', disposition: `attachment; filename="${name}"`, length: bytes.length });
+  }
+
+  @Post(':id/resume')
+  @HttpCode(202)
+  @ApiOperation({ summary: 'Continue the same run from this checkpoint' })
+  resume(@CurrentUser() user: AuthenticatedUser, @Param('id', id) checkpointId: string): Promise<Run> {
+    return this.checkpoints.resume(user, checkpointId);
+  }
+
+  @Post(':id/fork')
+  @HttpCode(201)
+  @ApiOperation({ summary: 'Start a new run from this checkpoint with some spec fields changed' })
+  @ApiBody({ schema: openApiSchema(forkRequestSchema) })
+  fork(
+    @CurrentUser() user: AuthenticatedUser,
+    @Param('id', id) checkpointId: string,
+    @Body(new ZodValidationPipe(forkRequestSchema)) body: ForkRequest,
+  ): Promise<Run> {
+    return this.checkpoints.fork(user, checkpointId, body);
+  }
+}

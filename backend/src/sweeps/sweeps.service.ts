@@ -1,0 +1,134 @@
+import { Inject, Injectable } from '@nestjs/common';
+import type { Selectable } from 'kysely';
+import type { SweepsTable } from '@kiln/shared/db';
+import {
+  estimateRunCpuSeconds,
+  expandSweep,
+  type CreateSweepRequest,
+  type Page,
+  type Run,
+  type RunListQuery,
+  type Sweep,
+  type SweepPreviewRequest,
+  type SweepPreviewResponse,
+} from '@kiln/shared';
+import type { AuthenticatedUser } from '../auth/authenticated-user';
+import { badInput, notFound } from '../common/api-error';
+import { KILN_CONFIG } from '../config/config.module';
+import type { KilnConfig } from '../config/config.schema';
+import { DB, type Db } from '../database/database.module';
+import { toRun } from '../runs/runs.mapper';
+import { RunsRepository } from '../runs/runs.repository';
+import { StudyAccessService } from '../studies/study-access.service';
+
+/** Rows per INSERT when writing a sweep's runs (keeps each statement well under pg's parameter cap). */
+const INSERT_BATCH = 500;
+
+@Injectable()
+export class SweepsService {
+  constructor(
+    @Inject(DB) private readonly db: Db,
+    @Inject(KILN_CONFIG) private readonly config: KilnConfig,
+    private readonly access: StudyAccessService,
+    private readonly runs: RunsRepository,
+  ) {}
+
+  private expand(body: SweepPreviewRequest) {
+    const expansion = expandSweep(body.base, body.axes);
+    if (!expansion.ok) throw badInput(expansion.message, expansion.details);
+    return expansion.runs;
+  }
+
+  /** Run count and CPU estimate against the caller's quota; writes nothing. */
+  async preview(user: AuthenticatedUser, body: SweepPreviewRequest): Promise<SweepPreviewResponse> {
+    await this.access.assertCanWork(user, body.studyId);
+    const runs = this.expand(body);
+    const cpuSeconds = runs.reduce((sum, run) => sum + estimateRunCpuSeconds(run.spec), 0);
+    return {
+      runCount: runs.length,
+      estimatedCpuHours: cpuSeconds / 3600,
+      quota: {
+        slots: this.config.KILN_DEFAULT_USER_SLOTS,
+        slotsInUse: await this.runs.inFlightCount(user.id),
+        cpuHoursRemaining: null,
+      },
+      sample: runs.slice(0, 5).map((run) => ({ axisValues: run.axisValues })),
+    };
+  }
+
+  /** Creates the sweep and all its runs in one transaction, after every run's spec was validated. */
+  async create(user: AuthenticatedUser, body: CreateSweepRequest): Promise<Sweep> {
+    await this.access.assertCanWork(user, body.studyId);
+    const runs = this.expand(body);
+    const sweep = await this.db.transaction().execute(async (trx) => {
+      const row = await trx
+        .insertInto('sweeps')
+        .values({
+          study_id: body.studyId,
+          owner_id: user.id,
+          name: body.name,
+          base_spec: JSON.stringify(body.base),
+          axes: JSON.stringify(body.axes),
+          run_count: runs.length,
+        })
+        .returningAll()
+        .executeTakeFirstOrThrow();
+      for (let i = 0; i < runs.length; i += INSERT_BATCH) {
+        await this.runs.insertMany(
+          runs.slice(i, i + INSERT_BATCH).map((run) => ({
+            study_id: body.studyId,
+            sweep_id: row.id,
+            owner_id: user.id,
+            sweep_index: run.index,
+            axis_values: JSON.stringify(run.axisValues),
+            spec: JSON.stringify(run.spec),
+            priority: body.priority,
+          })),
+          trx,
+        );
+      }
+      return row;
+    });
+    return this.toSweep(sweep);
+  }
+
+  private async findVisible(user: AuthenticatedUser, id: string): Promise<Selectable<SweepsTable>> {
+    const row = await this.db.selectFrom('sweeps').selectAll().where('id', '=', id).executeTakeFirst();
+    if (!row) throw notFound('sweep');
+    await this.access.assertCanView(user, row.study_id).catch(() => {
+      throw notFound('sweep');
+    });
+    return row;
+  }
+
+  async get(user: AuthenticatedUser, id: string): Promise<Sweep> {
+    return this.toSweep(await this.findVisible(user, id));
+  }
+
+  async listRuns(user: AuthenticatedUser, id: string, query: RunListQuery): Promise<Page<Run>> {
+    await this.findVisible(user, id);
+    const { rows, total } = await this.runs.listBySweep(id, query);
+    return { items: rows.map(toRun), total, page: query.page, pageSize: query.pageSize };
+  }
+
+  async listForStudy(user: AuthenticatedUser, studyId: string): Promise<Sweep[]> {
+    await this.access.assertCanView(user, studyId);
+    const rows = await this.db.selectFrom('sweeps').selectAll().where('study_id', '=', studyId).orderBy('created_at', 'desc').execute();
+    return Promise.all(rows.map((row) => this.toSweep(row)));
+  }
+
+  private async toSweep(row: Selectable<SweepsTable>): Promise<Sweep> {
+    const counts = Object.fromEntries((await this.runs.countsBySweep(row.id)).map((c) => [c.state, Number(c.n)]));
+    return {
+      id: row.id,
+      studyId: row.study_id,
+      ownerId: row.owner_id,
+      name: row.name,
+      baseSpec: row.base_spec,
+      axes: row.axes,
+      runCount: row.run_count,
+      createdAt: row.created_at.toISOString(),
+      counts,
+    };
+  }
+}

@@ -1,0 +1,74 @@
+// API types of runs, checkpoints and their live events (architecture.md, "The API surface").
+import type { FlowOutcome } from '../flow';
+import type { RunSpec } from '../spec';
+
+export const RUN_STATES = ['queued', 'waiting', 'running', 'paused', 'finished', 'failed', 'cancelled'] as const;
+export type RunState = (typeof RUN_STATES)[number];
+/** States after which a run does nothing more until someone resumes or forks it. */
+export const RESTING_STATES: readonly RunState[] = ['paused', 'finished', 'failed', 'cancelled'];
+
+/** One sampled diagnostic row (numerics.md §3). */
+export interface MetricSample {
+  step: number;
+  t: number;
+  dt: number;
+  energy: number;
+  tension: number;
+  gradMax: number;
+  gradMaxAt: number;
+  lambda: number;
+  center: number | null;
+  sigma: number | null;
+  points: number;
+  newtonIterations: number;
+}
+
+export interface CheckpointInfo {
+  id: string;
+  runId: string;
+  seq: number;
+  step: number;
+  t: number;
+  points: number;
+  reason: string;
+  cpuSeconds: number;
+  sizeBytes: number;
+  sha256: string;
+  createdAt: string;
+}
+
+export interface Run {
+  id: string;
+  studyId: string;
+  sweepId: string | null;
+  ownerId: string;
+  sweepIndex: number | null;
+  axisValues: Record<string, number>;
+  spec: RunSpec;
+  state: RunState;
+  /** Why a queued run is not running yet, in words a person understands. */
+  waitReason: string | null;
+  outcome: FlowOutcome | null;
+  outcomeReason: string | null;
+  /** The `flow` command's summary (numerics.md §5) once the run has an outcome. */
+  summary: unknown;
+  /** The latest diagnostic sample. */
+  progress: MetricSample | null;
+  error: string | null;
+  priority: number;
+  parentCheckpointId: string | null;
+  /** The run the parent checkpoint belongs to, for forks. */
+  parentRunId: string | null;
+  controlRequest: 'pause' | 'cancel' | null;
+  workerId: string | null;
+  cpuSeconds: number;
+  createdAt: string;
+  startedAt: string | null;
+  finishedAt: string | null;
+}
+
+/** Server-sent events of `GET /api/runs/:id/events`, published by workers on Redis. */
+export type RunEvent =
+  | { type: 'progress'; runId: string; sample: MetricSample; cpuSeconds: number }
+  | { type: 'state'; runId: string; state: RunState; outcome: FlowOutcome | null; waitReason: string | null }
+  | { type: 'checkpoint'; runId: string; checkpoint: Pick<CheckpointInfo, 'id' | 'seq' | 'step' | 't' | 'reason'> };

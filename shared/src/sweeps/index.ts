@@ -1,0 +1,2 @@
+export * from './sweep-axes';
+export * from './cpu-estimate';
