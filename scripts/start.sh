@@ -15,7 +15,7 @@ export PORT=${PORT:-8080}
 export KILN_PG_PORT=${KILN_PG_PORT:-5433}
 export KILN_REDIS_PORT=${KILN_REDIS_PORT:-6380}
 export KILN_SMTP_PORT=${KILN_SMTP_PORT:-2525}
-export KILN_WORKER_PROCESSES=${KILN_WORKER_PROCESSES:-1}
+export KILN_WORKER_PROCESSES=${KILN_WORKER_PROCESSES:-2}
 export KILN_PUBLIC_URL=${KILN_PUBLIC_URL:-http://127.0.0.1:$PORT}
 mkdir -p "$KILN_DATA_DIR"
 KILN_DATA_DIR=$(cd "$KILN_DATA_DIR" && pwd)
@@ -54,7 +54,7 @@ node backend/dist/cli.js seed-demo
 
 node backend/dist/mail/smtp-sink.main.js & children+=($!)
 node backend/dist/main.js & children+=($!)
-for _ in $(seq "$KILN_WORKER_PROCESSES"); do node worker/dist/main.js & children+=($!); done
+node worker/dist/supervisor.js & children+=($!)
 wait_for_port "$PORT" "the Kiln API" 300
 
 log "Kiln is running at $KILN_PUBLIC_URL  (API docs: $KILN_PUBLIC_URL/api/docs). Ctrl-C stops it."
