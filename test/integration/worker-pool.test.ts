@@ -18,7 +18,8 @@ import {
   type WorkerProcess,
 } from '../support/worker-harness';
 import { createHash } from 'node:crypto';
-import { deserializeCheckpoint } from '@kiln/shared';
+import * as engine from '@kiln/shared';
+import { advanceFlowRun, deserializeCheckpoint, parseRunSpec, summarizeFlowRun, type FlowRun, type RunSpec } from '@kiln/shared';
 
 // Runs on two real worker processes (each one slot) against real PostgreSQL and a
 // private Redis; the test plays the scheduler.
@@ -97,5 +98,33 @@ describe('worker pool: runs complete on two worker processes', () => {
     expect(after.lease).toBe(before.lease);
     expect(after.state).toBe('finished');
     expect((await queue.getJob(job.id!))?.returnvalue).toMatchObject({ runId, status: 'stale' });
+  });
+
+  it('a fork starts from its parent checkpoint carried onto its own spec (or fails saying the engine cannot fork yet)', async () => {
+    const owner = await createOwnerAndStudy(database.db);
+    const parentSpec = quickSpecs()[0]!;
+    const parentId = await insertRun(database.db, owner, parentSpec);
+    await admitRun(database.db, queue, parentId);
+    await waitForState(database.db, parentId, ['finished']);
+    const parentCheckpoint = (await checkpointRows(database.db, parentId)).at(-1)!;
+
+    // The fork: same study, a finer grid and a tighter tension threshold, recorded with its parent.
+    const forkInput = { ...parentSpec, grid: { points: 300 }, stop: { tension: 1e-10, gradientBound: 1e8 } };
+    const forkId = await insertRun(database.db, owner, forkInput);
+    await database.db.updateTable('runs').set({ parent_checkpoint_id: parentCheckpoint.id }).where('id', '=', forkId).execute();
+    await admitRun(database.db, queue, forkId);
+    const row = await waitForState(database.db, forkId, ['finished', 'failed']);
+
+    const fork = (engine as unknown as { forkFlowRun?: (parent: FlowRun, spec: RunSpec) => FlowRun }).forkFlowRun;
+    if (typeof fork === 'function') {
+      const expected = fork(deserializeCheckpoint(new Uint8Array(parentCheckpoint.state)), parseRunSpec(forkInput));
+      advanceFlowRun(expected);
+      expect(row.error).toBeNull();
+      expect(withoutCpu(row.summary)).toEqual(withoutCpu(summarizeFlowRun(expected, 0)));
+    } else {
+      expect(row.state).toBe('failed');
+      expect(row.error).toMatch(/forking is not available in this engine build yet/);
+    }
+    expect(row.parent_checkpoint_id).toBe(parentCheckpoint.id);
   });
 });
