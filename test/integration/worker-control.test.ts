@@ -148,4 +148,32 @@ describe('worker control: pause, resume, cancel, corrupted checkpoints', () => {
     expect(output).toContain(`run ${runId}: skipping checkpoint ${latest.seq}: checkpoint ${latest.seq} is corrupted`);
     expect(output).toContain(`run ${runId}: continuing from checkpoint ${previous.seq} `);
   });
+
+  it('resume from an earlier checkpoint continues from that one (recorded as a start checkpoint) and finishes identically', async () => {
+    const runId = await insertRun(database.db, owner, spec);
+    await admitRun(database.db, queue, runId);
+    await waitFor('two interval checkpoints', async () =>
+      (await checkpointRows(database.db, runId)).filter((c) => c.reason === 'interval').length >= 2,
+    );
+    await request(runId, 'pause');
+    await waitForState(database.db, runId, ['paused']);
+    const chosen = (await checkpointRows(database.db, runId)).find((c) => c.reason === 'interval')!;
+
+    // POST /api/checkpoints/:id/resume as the API does it, then admission.
+    await database.db
+      .updateTable('runs')
+      .set({ state: 'queued', resume_checkpoint_id: chosen.id, dispatched_at: null })
+      .where('id', '=', runId)
+      .execute();
+    await admitRun(database.db, queue, runId);
+    await expectIdenticalToReference(runId);
+    const row = await runRow(database.db, runId);
+    expect(row.resume_checkpoint_id).toBeNull();
+    const checkpoints = await checkpointRows(database.db, runId);
+    const start = checkpoints.find((c) => c.reason === 'start')!;
+    expect(start).toMatchObject({ step: chosen.step, sha256: chosen.sha256 });
+    // Everything after the start checkpoint was computed from the chosen one.
+    expect(checkpoints.filter((c) => c.seq > start.seq).every((c) => c.step > chosen.step)).toBe(true);
+    expect(checkpoints.map((c) => c.seq)).toEqual(checkpoints.map((_, i) => i + 1));
+  });
 });
