@@ -14,6 +14,7 @@ import { RunsModule } from './runs/runs.module';
 import { SchedulerModule } from './scheduler/scheduler.module';
 import { StudiesModule } from './studies/studies.module';
 import { SweepsModule } from './sweeps/sweeps.module';
+import { WorkersModule } from './workers/workers.module';
 
 @Module({})
 export class AppModule {
@@ -33,6 +34,7 @@ export class AppModule {
         RunsModule,
         CheckpointsModule,
         SchedulerModule,
+        WorkersModule,
       ],
       providers: [{ provide: APP_FILTER, useClass: ApiExceptionFilter }],
     };

@@ -1,7 +1,7 @@
 import { Body, Controller, Get, HttpCode, Param, Post, Res, StreamableFile } from '@nestjs/common';
 import type { Response } from 'express';
 import { ApiBearerAuth, ApiBody, ApiOperation, ApiTags } from '@nestjs/swagger';
-import { forkRequestSchema, idParamSchema, type ForkRequest, type Run } from '@kiln/shared';
+import { forkRequestSchema, idParamSchema, type CheckpointProfile, type ForkRequest, type Run } from '@kiln/shared';
 import { CurrentUser } from '../auth/auth.decorators';
 import type { AuthenticatedUser } from '../auth/authenticated-user';
 import { openApiSchema } from '../common/openapi';
@@ -26,6 +26,12 @@ export class CheckpointsController {
     const { bytes, name, sha256 } = await this.checkpoints.file(user, checkpointId);
     response.setHeader('X-Kiln-SHA256', sha256);
     return new StreamableFile(bytes, { type: 'application/octet-stream', disposition: `attachment; filename="${name}"`, length: bytes.length });
+  }
+
+  @Get(':id/profile')
+  @ApiOperation({ summary: 'The profile h(r) stored in the checkpoint, for plots' })
+  profile(@CurrentUser() user: AuthenticatedUser, @Param('id', id) checkpointId: string): Promise<CheckpointProfile> {
+    return this.checkpoints.profile(user, checkpointId);
   }
 
   @Post(':id/resume')

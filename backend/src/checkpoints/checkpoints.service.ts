@@ -1,5 +1,5 @@
 import { HttpStatus, Inject, Injectable } from '@nestjs/common';
-import { ErrorCode, safeParseRunSpec, type ForkRequest, type Run } from '@kiln/shared';
+import { deserializeCheckpoint, ErrorCode, flowProfile, runTime, safeParseRunSpec, type CheckpointProfile, type ForkRequest, type Run } from '@kiln/shared';
 import type { AuthenticatedUser } from '../auth/authenticated-user';
 import { ApiException, badInput, notFound } from '../common/api-error';
 import { DB, type Db } from '../database/database.module';
@@ -37,6 +37,19 @@ export class CheckpointsService {
     const { checkpoint, run } = await this.find(user, id);
     const row = await this.db.selectFrom('checkpoints').select('state').where('id', '=', id).executeTakeFirstOrThrow();
     return { bytes: row.state, name: `kiln-run-${run.id}-checkpoint-${checkpoint.seq}.kcp`, sha256: checkpoint.sha256 };
+  }
+
+  /** The profile h(r) stored in the checkpoint, decoded by the engine (its checksum checked). */
+  async profile(user: AuthenticatedUser, id: string): Promise<CheckpointProfile> {
+    const { bytes } = await this.file(user, id);
+    let run;
+    try {
+      run = deserializeCheckpoint(new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength));
+    } catch (error) {
+      throw new ApiException(HttpStatus.UNPROCESSABLE_ENTITY, ErrorCode.Unprocessable, `The checkpoint cannot be read: ${error instanceof Error ? error.message : String(error)}`);
+    }
+    const { r, h } = flowProfile(run);
+    return { r: Array.from(r), h: Array.from(h), t: runTime(run), step: run.s.step };
   }
 
   /** Continues the same run from this checkpoint. */

@@ -1,7 +1,7 @@
 import { Controller, Get, Headers, HttpCode, Param, Post, Query, Sse } from '@nestjs/common';
 import { ApiBearerAuth, ApiOperation, ApiTags } from '@nestjs/swagger';
 import type { Observable } from 'rxjs';
-import { idParamSchema, metricsQuerySchema, type CheckpointInfo, type MetricSample, type MetricsQuery, type Run } from '@kiln/shared';
+import { idParamSchema, metricsQuerySchema, runSearchQuerySchema, type Page, type RunSearchQuery, type CheckpointInfo, type MetricSample, type MetricsQuery, type Run } from '@kiln/shared';
 import { CurrentUser, Public } from '../auth/auth.decorators';
 import type { AuthenticatedUser } from '../auth/authenticated-user';
 import { ZodValidationPipe } from '../common/zod-validation.pipe';
@@ -14,6 +14,12 @@ const id = new ZodValidationPipe(idParamSchema);
 @Controller('runs')
 export class RunsController {
   constructor(private readonly runs: RunsService) {}
+
+  @Get()
+  @ApiOperation({ summary: 'Runs the caller can see across studies (scope=mine: their own), filtered, sorted, paged' })
+  search(@CurrentUser() user: AuthenticatedUser, @Query(new ZodValidationPipe(runSearchQuerySchema)) query: RunSearchQuery): Promise<Page<Run>> {
+    return this.runs.search(user, query);
+  }
 
   @Get(':id')
   @ApiOperation({ summary: 'A run: spec, state, wait reason, outcome, progress, parent checkpoint' })

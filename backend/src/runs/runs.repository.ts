@@ -39,7 +39,26 @@ export class RunsRepository {
   }
 
   async listBySweep(sweepId: string, query: RunListQuery, executor: Executor = this.db) {
-    let base = executor.selectFrom('runs').where('runs.sweep_id', '=', sweepId);
+    return this.list({ sweepId }, query, executor);
+  }
+
+  /**
+   * A page of runs. `visibleTo` limits them to studies the user belongs to;
+   * `ownerId` to one person's runs; `sweepId`/`studyId` to one sweep or study.
+   */
+  async list(
+    filter: { sweepId?: string; studyId?: string; ownerId?: string; visibleTo?: string },
+    query: RunListQuery,
+    executor: Executor = this.db,
+  ) {
+    let base = executor.selectFrom('runs');
+    if (filter.sweepId) base = base.where('runs.sweep_id', '=', filter.sweepId);
+    if (filter.studyId) base = base.where('runs.study_id', '=', filter.studyId);
+    if (filter.ownerId) base = base.where('runs.owner_id', '=', filter.ownerId);
+    if (filter.visibleTo) {
+      const userId = filter.visibleTo;
+      base = base.where('runs.study_id', 'in', (eb) => eb.selectFrom('study_members').select('study_id').where('user_id', '=', userId));
+    }
     if (query.state) base = base.where('runs.state', '=', query.state);
     if (query.outcome) base = base.where('runs.outcome', '=', query.outcome);
     const { total } = await base.select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow();

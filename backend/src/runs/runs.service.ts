@@ -1,6 +1,6 @@
 import { HttpStatus, Inject, Injectable } from '@nestjs/common';
 import { defer, filter, from, interval, map, merge, mergeMap, type Observable } from 'rxjs';
-import { ErrorCode, type CheckpointInfo, type MetricSample, type MetricsQuery, type Run, type RunEvent } from '@kiln/shared';
+import { ErrorCode, Role, type Page, type RunSearchQuery, type CheckpointInfo, type MetricSample, type MetricsQuery, type Run, type RunEvent } from '@kiln/shared';
 import type { AuthenticatedUser } from '../auth/authenticated-user';
 import { ApiException, notFound, unauthenticated } from '../common/api-error';
 import { DB, type Db } from '../database/database.module';
@@ -45,6 +45,20 @@ export class RunsService {
     const run = await this.get(user, id);
     await this.access.assertCanWork(user, run.studyId);
     return run;
+  }
+
+  /** Runs across studies: the caller's own, or all they can see (admins: all). */
+  async search(user: AuthenticatedUser, query: RunSearchQuery): Promise<Page<Run>> {
+    if (query.studyId) await this.access.assertCanView(user, query.studyId);
+    const { rows, total } = await this.runs.list(
+      {
+        studyId: query.studyId,
+        ownerId: query.scope === 'mine' ? user.id : undefined,
+        visibleTo: user.role === Role.Admin ? undefined : user.id,
+      },
+      query,
+    );
+    return { items: rows.map(toRun), total, page: query.page, pageSize: query.pageSize };
   }
 
   async metrics(user: AuthenticatedUser, id: string, query: MetricsQuery): Promise<MetricSample[]> {

@@ -1,4 +1,5 @@
-import { Body, Controller, Get, HttpCode, Param, Post, Query } from '@nestjs/common';
+import { Body, Controller, Get, HttpCode, Param, Post, Query, Res } from '@nestjs/common';
+import type { Response } from 'express';
 import { ApiBearerAuth, ApiBody, ApiOperation, ApiTags } from '@nestjs/swagger';
 import {
   createSweepRequestSchema,
@@ -59,6 +60,19 @@ export class SweepsController {
     @Query(new ZodValidationPipe(runListQuerySchema)) query: RunListQuery,
   ): Promise<Page<Run>> {
     return this.sweeps.listRuns(user, sweepId, query);
+  }
+
+  @Get('sweeps/:id/results.csv')
+  @ApiOperation({ summary: "The sweep's results as CSV: one row per run with axis values, outcome, T̂, final energy" })
+  async results(
+    @CurrentUser() user: AuthenticatedUser,
+    @Param('id', id) sweepId: string,
+    @Res({ passthrough: true }) response: Response,
+  ): Promise<string> {
+    const { name, csv } = await this.sweeps.resultsCsv(user, sweepId);
+    response.setHeader('Content-Type', 'text/csv; charset=utf-8');
+    response.setHeader('Content-Disposition', `attachment; filename="${name}"`);
+    return csv;
   }
 
   @Get('studies/:id/sweeps')

@@ -14,6 +14,7 @@ import {
 } from '@kiln/shared';
 import type { AuthenticatedUser } from '../auth/authenticated-user';
 import { badInput, notFound } from '../common/api-error';
+import { csvLine } from '../common/csv';
 import { KILN_CONFIG } from '../config/config.module';
 import type { KilnConfig } from '../config/config.schema';
 import { DB, type Db } from '../database/database.module';
@@ -109,6 +110,39 @@ export class SweepsService {
     await this.findVisible(user, id);
     const { rows, total } = await this.runs.listBySweep(id, query);
     return { items: rows.map(toRun), total, page: query.page, pageSize: query.pageSize };
+  }
+
+  /** One CSV row per run: its axis values, state, outcome, blow-up estimate and final figures. */
+  async resultsCsv(user: AuthenticatedUser, id: string): Promise<{ name: string; csv: string }> {
+    const sweep = await this.findVisible(user, id);
+    const paths = ((sweep.axes as { path: string }[]) ?? []).map((axis) => axis.path);
+    const rows = await this.db
+      .selectFrom('runs')
+      .select(['id', 'sweep_index', 'axis_values', 'state', 'outcome', 'summary', 'cpu_seconds'])
+      .where('sweep_id', '=', id)
+      .orderBy('sweep_index')
+      .execute();
+    let csv = csvLine(['index', ...paths, 'state', 'outcome', 'blowup_T', 'blowup_exponent', 'blowup_kind', 'energy_final', 'tension_final', 'grad_max_final', 't_final', 'cpu_seconds', 'run_id']);
+    for (const row of rows) {
+      const summary = (row.summary ?? {}) as { blowup?: { T?: number | null; exponent?: number; kind?: string } | null; energyFinal?: number; tensionFinal?: number; gradMaxFinal?: number; tFinal?: number };
+      csv += csvLine([
+        row.sweep_index,
+        ...paths.map((path) => row.axis_values[path]),
+        row.state,
+        row.outcome,
+        summary.blowup?.T,
+        summary.blowup?.exponent,
+        summary.blowup?.kind,
+        summary.energyFinal,
+        summary.tensionFinal,
+        summary.gradMaxFinal,
+        summary.tFinal,
+        row.cpu_seconds,
+        row.id,
+      ]);
+    }
+    const safeName = sweep.name.replace(/[^\w.-]+/g, '-').slice(0, 60) || 'sweep';
+    return { name: `kiln-sweep-${safeName}-results.csv`, csv };
   }
 
   async listForStudy(user: AuthenticatedUser, studyId: string): Promise<Sweep[]> {

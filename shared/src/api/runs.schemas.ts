@@ -72,3 +72,24 @@ export type RunEvent =
   | { type: 'progress'; runId: string; sample: MetricSample; cpuSeconds: number }
   | { type: 'state'; runId: string; state: RunState; outcome: FlowOutcome | null; waitReason: string | null }
   | { type: 'checkpoint'; runId: string; checkpoint: Pick<CheckpointInfo, 'id' | 'seq' | 'step' | 't' | 'reason'> };
+
+/** A worker host as `GET /api/workers` lists it. */
+export interface WorkerInfo {
+  id: string;
+  host: string;
+  pid: number;
+  slots: number;
+  startedAt: string;
+  lastHeartbeatAt: string;
+  /** No heartbeat for longer than the stale limit: the host may be gone. */
+  stale: boolean;
+  runs: { id: string; studyId: string }[];
+}
+
+/** The profile h(r) stored in a checkpoint (`GET /api/checkpoints/:id/profile`). */
+export interface CheckpointProfile {
+  r: number[];
+  h: number[];
+  t: number;
+  step: number;
+}

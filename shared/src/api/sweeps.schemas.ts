@@ -67,6 +67,15 @@ export const runListQuerySchema = z.strictObject({
 });
 export type RunListQuery = z.infer<typeof runListQuerySchema>;
 
+/** Query of `GET /api/runs`: runs the caller can see, across studies. */
+export const runSearchQuerySchema = runListQuerySchema.extend({
+  scope: z.enum(['mine', 'all'], { error: 'scope must be mine or all' }).default('mine'),
+  studyId: uuid('studyId').optional(),
+  sort: z.enum(SWEEP_RUN_SORTS, { error: `sort must be one of ${SWEEP_RUN_SORTS.join(', ')}` }).default('created'),
+  order: z.enum(['asc', 'desc'], { error: 'order must be asc or desc' }).default('desc'),
+});
+export type RunSearchQuery = z.infer<typeof runSearchQuerySchema>;
+
 export interface Page<T> {
   items: T[];
   total: number;
