@@ -14,7 +14,6 @@ async function main(): Promise<void> {
   const db = createDatabase({ connectionString: config.DATABASE_URL, max: 4, applicationName: 'kiln-worker' });
   const redis = new Redis(config.REDIS_URL, { maxRetriesPerRequest: null });
   redis.on('error', (error) => log(`redis: ${error.message}`));
-  await redis.ping();
 
   const startedAt = new Date();
   const identity = {
@@ -27,17 +26,17 @@ async function main(): Promise<void> {
   const heartbeat = new Heartbeat(db, identity, config.KILN_HEARTBEAT_SECONDS * 1000, (error) =>
     log(`heartbeat failed, will retry: ${error instanceof Error ? error.message : String(error)}`),
   );
-  await heartbeat.start();
-  const pool = new RunWorkerPool(config, identity.id, log);
-  await pool.start();
-  log(`ready on ${identity.host} with ${identity.slots} slot(s)`);
+  let pool: RunWorkerPool | undefined;
 
+  // Installed before anything starts, so a signal during start-up also ends cleanly.
   let stopping = false;
+  let started: Promise<void> = Promise.resolve();
   const shutdown = async (signal: string) => {
     if (stopping) return;
     stopping = true;
     log(`${signal}: shutting down (running jobs checkpoint and hand their runs back)`);
-    await pool.stop().catch((error: unknown) => log(`shutdown: ${error instanceof Error ? error.message : String(error)}`));
+    await started.catch(() => undefined);
+    await pool?.stop().catch((error: unknown) => log(`shutdown: ${error instanceof Error ? error.message : String(error)}`));
     await heartbeat.stop().catch(() => undefined);
     redis.disconnect();
     await db.destroy();
@@ -45,6 +44,16 @@ async function main(): Promise<void> {
   };
   process.on('SIGTERM', () => void shutdown('SIGTERM'));
   process.on('SIGINT', () => void shutdown('SIGINT'));
+
+  started = (async () => {
+    await redis.ping();
+    await heartbeat.start();
+    if (stopping) return;
+    pool = new RunWorkerPool(config, identity.id, log);
+    await pool.start();
+    log(`ready on ${identity.host} with ${identity.slots} slot(s)`);
+  })();
+  await started;
 }
 
 main().catch((error: unknown) => {
