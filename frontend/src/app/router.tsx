@@ -21,6 +21,11 @@ const router = createBrowserRouter([
             errorElement: <RouteError />,
             children: [
               { index: true, lazy: () => import('./routes/overview') },
+              { path: paths.studies.path, lazy: () => import('./routes/studies') },
+              { path: paths.study.path, lazy: () => import('./routes/study') },
+              { path: paths.newSweep.path, lazy: () => import('./routes/new-sweep') },
+              { path: paths.sweep.path, lazy: () => import('./routes/sweep') },
+              { path: paths.run.path, lazy: () => import('./routes/run') },
               { path: paths.lab.path, lazy: () => import('./routes/lab') },
               { path: '*', lazy: () => import('./routes/not-found') },
             ],

@@ -106,3 +106,88 @@ export const IconSignpost = (p: IconProps) => (
     <path d="M8 3.2h4.6l1.6 1.7-1.6 1.7H8zM8 8.2H3.4L1.8 9.9l1.6 1.7H8z" />
   </Icon>
 );
+
+export const IconStudies = (p: IconProps) => (
+  <Icon {...p}>
+    <path d="M2.5 3.5h4l1.2 1.5h5.8v7.5h-11z" />
+    <path d="M2.5 7h11" />
+  </Icon>
+);
+
+export const IconRunning = (p: IconProps) => (
+  <Icon {...p}>
+    <circle cx="8" cy="8" r="6.2" />
+    <path d="M6.6 5.4l3.8 2.6-3.8 2.6z" />
+  </Icon>
+);
+
+export const IconPaused = (p: IconProps) => (
+  <Icon {...p}>
+    <circle cx="8" cy="8" r="6.2" />
+    <path d="M6.5 5.6v4.8M9.5 5.6v4.8" />
+  </Icon>
+);
+
+export const IconQueue = (p: IconProps) => (
+  <Icon {...p}>
+    <path d="M3 4.5h10M3 8h10M3 11.5h6" />
+  </Icon>
+);
+
+export const IconHourglass = (p: IconProps) => (
+  <Icon {...p}>
+    <path d="M4.5 2h7M4.5 14h7" />
+    <path d="M5 2c0 3 6 3.5 6 6s-6 3-6 6M11 2c0 3-6 3.5-6 6s6 3 6 6" />
+  </Icon>
+);
+
+export const IconStop = (p: IconProps) => (
+  <Icon {...p}>
+    <circle cx="8" cy="8" r="6.2" />
+    <rect x="5.7" y="5.7" width="4.6" height="4.6" rx="0.5" />
+  </Icon>
+);
+
+export const IconFlare = (p: IconProps) => (
+  <Icon {...p}>
+    <path d="M8 1.8v2.6M8 11.6v2.6M1.8 8h2.6M11.6 8h2.6M3.6 3.6l1.8 1.8M10.6 10.6l1.8 1.8M12.4 3.6l-1.8 1.8M5.4 10.6l-1.8 1.8" />
+    <circle cx="8" cy="8" r="1.6" />
+  </Icon>
+);
+
+export const IconClock = (p: IconProps) => (
+  <Icon {...p}>
+    <circle cx="8" cy="8" r="6.2" />
+    <path d="M8 4.6V8l2.4 1.6" />
+  </Icon>
+);
+
+export const IconFork = (p: IconProps) => (
+  <Icon {...p}>
+    <circle cx="4.5" cy="3.5" r="1.5" />
+    <circle cx="4.5" cy="12.5" r="1.5" />
+    <circle cx="11.5" cy="5.5" r="1.5" />
+    <path d="M4.5 5v6M11.5 7c0 2.5-3 2.5-7 4" />
+  </Icon>
+);
+
+export const IconDownload = (p: IconProps) => (
+  <Icon {...p}>
+    <path d="M8 2.5v8M4.8 7.5L8 10.7l3.2-3.2" />
+    <path d="M2.5 12v1.5h11V12" />
+  </Icon>
+);
+
+export const IconPlus = (p: IconProps) => (
+  <Icon {...p}>
+    <path d="M8 3v10M3 8h10" />
+  </Icon>
+);
+
+export const IconWorker = (p: IconProps) => (
+  <Icon {...p}>
+    <rect x="2.5" y="3" width="11" height="4" rx="0.8" />
+    <rect x="2.5" y="9" width="11" height="4" rx="0.8" />
+    <path d="M5 5h.1M5 11h.1" />
+  </Icon>
+);

@@ -1,11 +1,31 @@
 /**
  * Every route of the app, in one place. Components link with `getHref()` and the
- * router registers `path`; later issues add studies, sweeps, runs, candidates, quotas.
+ * router registers `path`; later issues add candidates and quotas.
  */
 export const paths = {
   overview: {
     path: '/',
     getHref: () => '/',
+  },
+  studies: {
+    path: '/studies',
+    getHref: () => '/studies',
+  },
+  study: {
+    path: '/studies/:studyId',
+    getHref: (studyId: string) => `/studies/${studyId}`,
+  },
+  newSweep: {
+    path: '/studies/:studyId/sweeps/new',
+    getHref: (studyId: string) => `/studies/${studyId}/sweeps/new`,
+  },
+  sweep: {
+    path: '/sweeps/:sweepId',
+    getHref: (sweepId: string) => `/sweeps/${sweepId}`,
+  },
+  run: {
+    path: '/runs/:runId',
+    getHref: (runId: string) => `/runs/${runId}`,
   },
   lab: {
     path: '/lab',

@@ -102,5 +102,49 @@ export async function apiRequest<T>(path: string, options: RequestOptions = {}):
 
 export const api = {
   get: <T>(path: string, signal?: AbortSignal) => apiRequest<T>(path, { signal }),
-  post: <T>(path: string, body: unknown) => apiRequest<T>(path, { method: 'POST', body }),
+  post: <T>(path: string, body: unknown = {}, signal?: AbortSignal) => apiRequest<T>(path, { method: 'POST', body, signal }),
 };
+
+/** `?a=1&b=x` from the defined entries of an object ('' when none). */
+export function toQueryString(params: Record<string, string | number | undefined | null>): string {
+  const search = new URLSearchParams();
+  for (const [key, value] of Object.entries(params)) {
+    if (value !== undefined && value !== null && value !== '') search.set(key, String(value));
+  }
+  const text = search.toString();
+  return text ? `?${text}` : '';
+}
+
+/**
+ * Downloads a file from the API with the bearer token (a plain link cannot carry
+ * it) and hands it to the browser as a download named `filename`.
+ */
+export async function downloadFile(path: string, filename: string): Promise<void> {
+  const token = getToken();
+  let response: Response;
+  try {
+    response = await fetch(`/api${path}`, { headers: token ? { Authorization: `Bearer ${token}` } : {} });
+  } catch {
+    throw new ApiRequestError(0, 'network', "Kiln's server could not be reached.");
+  }
+  if (!response.ok) {
+    let body: unknown;
+    try {
+      body = await response.json();
+    } catch {
+      body = undefined;
+    }
+    if (response.status === 401 && token) endSession('expired');
+    if (isApiErrorBody(body)) throw new ApiRequestError(response.status, body.error, body.message, body.details ?? [], body);
+    throw new ApiRequestError(response.status, 'bad_response', `The server answered ${response.status}.`);
+  }
+  const blob = await response.blob();
+  const url = URL.createObjectURL(blob);
+  const link = document.createElement('a');
+  link.href = url;
+  link.download = filename;
+  document.body.appendChild(link);
+  link.click();
+  link.remove();
+  setTimeout(() => URL.revokeObjectURL(url), 10_000);
+}

@@ -19,3 +19,67 @@ export function formatLatency(ms: number): string {
 }
 
 export const plural = (count: number, one: string, many: string) => `${count} ${count === 1 ? one : many}`;
+
+const MINUS = '−';
+
+/**
+ * A measured number with `digits` significant figures; exponent notation
+ * (1.2 × 10⁻⁸ written as 1.2e−8) outside [1e−3, 1e5). Tabular figures come from CSS.
+ */
+export function formatNumber(value: number | null | undefined, digits = 4): string {
+  if (value === null || value === undefined || Number.isNaN(value)) return '—';
+  if (!Number.isFinite(value)) return value > 0 ? '∞' : `${MINUS}∞`;
+  if (value === 0) return '0';
+  const abs = Math.abs(value);
+  let text: string;
+  if (abs >= 1e-3 && abs < 1e5) {
+    text = String(Number(value.toPrecision(digits)));
+  } else {
+    const [mantissa, exponent] = value.toExponential(Math.max(0, digits - 1)).split('e');
+    text = `${String(Number(mantissa))}e${exponent!.replace('+', '')}`;
+  }
+  return text.replace(/-/g, MINUS);
+}
+
+/** A number with a unit after a thin space. */
+export const withUnit = (value: number | null | undefined, unit: string, digits = 4) =>
+  value === null || value === undefined ? '—' : `${formatNumber(value, digits)} ${unit}`;
+
+/** CPU time: seconds below a minute, minutes below an hour, then hours. */
+export function formatCpu(seconds: number | null | undefined): string {
+  if (seconds === null || seconds === undefined) return '—';
+  if (seconds < 60) return `${formatNumber(seconds, 2)} s`;
+  if (seconds < 3600) return `${formatNumber(seconds / 60, 3)} min`;
+  return `${formatNumber(seconds / 3600, 3)} h`;
+}
+
+/** CPU-hours for estimates and quotas. */
+export const formatCpuHours = (hours: number | null | undefined) =>
+  hours === null || hours === undefined ? '—' : `${formatNumber(hours, hours < 10 ? 2 : 3)} CPU-h`;
+
+/** Bytes as kB/MB. */
+export function formatBytes(bytes: number): string {
+  if (bytes < 1024) return `${bytes} B`;
+  if (bytes < 1024 * 1024) return `${formatNumber(bytes / 1024, 3)} kB`;
+  return `${formatNumber(bytes / 1024 / 1024, 3)} MB`;
+}
+
+/** An angle in radians, also as a multiple of π when that reads better. */
+export function formatAngle(radians: number): string {
+  return `${formatNumber(radians / Math.PI, 4)}π`;
+}
+
+/** "3 min ago" style age of a timestamp. */
+export function formatAge(iso: string | null | undefined, now = Date.now()): string {
+  if (!iso) return '—';
+  const ms = now - new Date(iso).getTime();
+  if (Number.isNaN(ms)) return '—';
+  const s = Math.max(0, Math.round(ms / 1000));
+  if (s < 60) return `${s} s ago`;
+  if (s < 3600) return `${Math.round(s / 60)} min ago`;
+  if (s < 86_400) return `${Math.round(s / 3600)} h ago`;
+  return `${Math.round(s / 86_400)} d ago`;
+}
+
+/** The first block of a uuid, enough to tell runs apart on screen. */
+export const shortId = (id: string) => id.slice(0, 8);

@@ -2,7 +2,7 @@ import type { User } from '@kiln/shared';
 import { Button, Layout, Menu, type MenuProps } from 'antd';
 import { Link, Navigate, Outlet, useLocation, useNavigation } from 'react-router-dom';
 import { QueryError } from '@/components/query-error';
-import { IconLab, IconOverview, IconSignOut } from '@/components/icons';
+import { IconLab, IconOverview, IconSignOut, IconStudies } from '@/components/icons';
 import { FullPageSpinner } from '@/components/full-page-spinner';
 import { KilnMark, KilnWordmark } from '@/components/kiln-mark';
 import { RoleTag } from '@/components/role-tag';
@@ -15,6 +15,7 @@ import { isAdmin } from '@/lib/roles';
 function navItems(user: User): MenuProps['items'] {
   const items: MenuProps['items'] = [
     { key: paths.overview.path, icon: <IconOverview />, label: <Link to={paths.overview.getHref()}>Overview</Link> },
+    { key: paths.studies.path, icon: <IconStudies />, label: <Link to={paths.studies.getHref()}>Studies</Link> },
   ];
   if (isAdmin(user.role)) {
     items.push({ key: paths.lab.path, icon: <IconLab />, label: <Link to={paths.lab.getHref()}>Lab</Link> });
@@ -24,6 +25,8 @@ function navItems(user: User): MenuProps['items'] {
 
 function selectedKey(pathname: string): string {
   if (pathname === paths.lab.path || pathname.startsWith(`${paths.lab.path}/`)) return paths.lab.path;
+  // Studies, sweeps and runs all live under "Studies".
+  if (/^\/(studies|sweeps|runs)(\/|$)/.test(pathname)) return paths.studies.path;
   return pathname === paths.overview.path ? paths.overview.path : '';
 }
 
