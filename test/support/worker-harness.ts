@@ -21,7 +21,7 @@ import {
   type RunSpecInput,
 } from '@kiln/shared';
 import type { Database } from '@kiln/shared/db';
-import { waitFor } from './ports';
+import { freePort, portIsOpen, waitFor } from './ports';
 
 export interface WorkerProcess {
   child: ChildProcess;
@@ -242,4 +242,31 @@ export async function collectRunEvents(redisUrl: string): Promise<{ events: RunE
   subscriber.on('message', (_channel, text: string) => events.push(JSON.parse(text) as RunEvent));
   await subscriber.subscribe(CHANNELS.runEvents);
   return { events, close: () => subscriber.disconnect() };
+}
+
+export interface RestartableRedis {
+  url: string;
+  /** Kills the server (SIGKILL: no persistence, everything in it is lost). */
+  kill(): Promise<void>;
+  /** Starts an empty server on the same port. */
+  start(): Promise<void>;
+}
+
+/** A private redis-server that a test can kill and start again on the same port. */
+export async function startRestartableRedis(): Promise<RestartableRedis> {
+  const port = await freePort();
+  let child: ChildProcess | undefined;
+  const start = async () => {
+    child = spawn('redis-server', ['--bind', '127.0.0.1', '--port', String(port), '--save', '', '--appendonly', 'no'], { stdio: 'ignore' });
+    await waitFor(`redis-server on ${port}`, () => portIsOpen(port));
+  };
+  const kill = async () => {
+    const current = child;
+    if (!current || current.exitCode !== null || current.signalCode !== null) return;
+    const exited = new Promise((resolve) => current.once('exit', resolve));
+    current.kill('SIGKILL');
+    await exited;
+  };
+  await start();
+  return { url: `redis://127.0.0.1:${port}`, kill, start };
 }

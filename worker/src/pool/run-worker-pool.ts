@@ -57,6 +57,7 @@ export class RunWorkerPool {
     });
     // Fencing keeps a run safe if another worker took it over; the lost job's own
     // writes are refused at its next flush, so only log here.
+    this.worker.on('stalled', (jobId) => log(`job ${jobId} stalled (its worker stopped renewing the lock); it goes back to the queue`));
     this.worker.on('lockRenewalFailed', (jobIds) => log(`could not renew the lock of job(s) ${jobIds.join(', ')}`));
 
     this.subscriber = new Redis(config.REDIS_URL, { maxRetriesPerRequest: null });
