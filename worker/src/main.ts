@@ -49,7 +49,7 @@ async function main(): Promise<void> {
     await redis.ping();
     await heartbeat.start();
     if (stopping) return;
-    pool = new RunWorkerPool(config, identity.id, log);
+    pool = new RunWorkerPool(config, identity.id, db, log);
     await pool.start();
     log(`ready on ${identity.host} with ${identity.slots} slot(s)`);
   })();

@@ -2,6 +2,8 @@ import path from 'node:path';
 import { Redis } from 'ioredis';
 import { Worker, type Job } from 'bullmq';
 import { CHANNELS, RUN_QUEUE, controlMessageSchema, type SimulateRunPayload } from '@kiln/shared';
+import type { Kysely } from 'kysely';
+import type { Database } from '@kiln/shared/db';
 import type { WorkerConfig } from '../config/worker-config';
 import { AbortReason } from '../sandbox/abort-reason';
 
@@ -26,6 +28,7 @@ export class RunWorkerPool {
   constructor(
     config: WorkerConfig,
     workerId: string,
+    private readonly db: Kysely<Database>,
     private readonly log: (message: string) => void,
   ) {
     const lockMs = config.KILN_JOB_LOCK_SECONDS * 1000;
@@ -62,7 +65,7 @@ export class RunWorkerPool {
 
     this.subscriber = new Redis(config.REDIS_URL, { maxRetriesPerRequest: null });
     this.subscriber.on('error', (error) => log(`control channel: ${error.message}`));
-    this.subscriber.on('message', (_channel, text: string) => this.onControl(text));
+    this.subscriber.on('message', (_channel, text: string) => void this.onControl(text));
   }
 
   async start(): Promise<void> {
@@ -70,8 +73,13 @@ export class RunWorkerPool {
     void this.worker.run().catch((error: unknown) => this.log(`worker stopped: ${error instanceof Error ? error.message : String(error)}`));
   }
 
-  /** Pause or cancel announced by the API: abort the held job's signal so its loop re-reads the row. */
-  private onControl(text: string): void {
+  /**
+   * Pause or cancel announced by the API: abort the held job's signal so its loop
+   * re-reads the row. A job's signal aborts only once, and graceful shutdown needs
+   * it too, so it is aborted only when the row really carries a request (the API
+   * writes the row before it publishes).
+   */
+  private async onControl(text: string): Promise<void> {
     let message;
     try {
       message = controlMessageSchema.parse(JSON.parse(text));
@@ -80,7 +88,16 @@ export class RunWorkerPool {
       return;
     }
     const jobId = this.held.get(message.runId);
-    if (jobId && this.worker.cancelJob(jobId, AbortReason.Control)) {
+    if (!jobId || this.stopping) return;
+    const row = await this.db
+      .selectFrom('runs')
+      .select('control_request')
+      .where('id', '=', message.runId)
+      .executeTakeFirst()
+      .catch(() => undefined);
+    // Unreadable (PostgreSQL away): the run's own once-a-second flush will see the request.
+    if (!row?.control_request) return;
+    if (this.held.get(message.runId) === jobId && this.worker.cancelJob(jobId, AbortReason.Control)) {
       this.log(`run ${message.runId}: ${message.request} requested, signalled job ${jobId}`);
     }
   }
