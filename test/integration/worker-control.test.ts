@@ -184,4 +184,27 @@ describe('worker control: pause, resume, cancel, corrupted checkpoints', () => {
     expect(checkpoints.filter((c) => c.seq > start.seq).every((c) => c.step > chosen.step)).toBe(true);
     expect(checkpoints.map((c) => c.seq)).toEqual(checkpoints.map((_, i) => i + 1));
   });
+
+  it('a worker whose lease was taken over stops at its next write and writes nothing more', async () => {
+    const runId = await insertRun(database.db, owner, spec);
+    const attempt = await admitRun(database.db, queue, runId);
+    await runningPast(runId, 500);
+    // Another worker claims a newer admission of the run (what a reconciler's re-admission leads to).
+    await database.db
+      .updateTable('runs')
+      .set((eb) => ({ lease: eb('lease', '+', 1), attempt: eb('attempt', '+', 1), worker_id: 'someone-else' }))
+      .where('id', '=', runId)
+      .execute();
+    const takenOver = await runRow(database.db, runId);
+    const job = (await queue.getJob(`run-${runId}-${attempt}`))!;
+    await expect.poll(async () => (await queue.getJob(job.id!))?.returnvalue, { timeout: 5_000 }).toMatchObject({ runId, status: 'superseded' });
+    const checkpoints = (await checkpointRows(database.db, runId)).length;
+    const metrics = (await metricRows(database.db, runId)).length;
+    await new Promise((resolve) => setTimeout(resolve, 1_500));
+    expect((await checkpointRows(database.db, runId)).length).toBe(checkpoints);
+    expect((await metricRows(database.db, runId)).length).toBe(metrics);
+    const row = await runRow(database.db, runId);
+    expect(row).toMatchObject({ state: 'running', worker_id: 'someone-else', lease: takenOver.lease, cpu_seconds: takenOver.cpu_seconds });
+    expect(workers.map((w) => w.output()).join('')).toContain(`run ${runId}: lease ${takenOver.lease - 1} was taken over by another worker`);
+  });
 });
