@@ -10,8 +10,10 @@ import { warp } from './flow-model';
  *   a_j = g(r̄_j)^(m−1),  c_j = (m−1) Δ_j g(r̄_j)^(m−3),   P = ρ², Q = f².
  *
  * (This is P1 finite elements with midpoint quadrature, hence second order.) The
- * flow is its gradient over the lumped mass M_i = |S^(m−1)| P(h_i) V_i with
- * V_i = ½(a_{i−1}Δ_{i−1} + a_iΔ_i):   M_i ḣ_i = −∂D_h/∂h_i,  i.e. ḣ_i = τ_i, the
+ * flow is its gradient over the lumped mass (the same midpoint rule applied to the
+ * L² metric ∫ρ²|δh|² g^(m−1) dr, shared half and half by a cell's two nodes)
+ *   M_i = |S^(m−1)| ½ (P(h̄_{i−1}) a_{i−1}Δ_{i−1} + P(h̄_i) a_iΔ_i):
+ *   M_i ḣ_i = −∂D_h/∂h_i,  i.e. ḣ_i = τ_i, the
  * discrete tension; so dD_h/dt = −Σ M_i τ_i² = −‖τ‖_h² exactly (§1, §4.7). At a
  * pole g(r̄_0) = r̄_0 > 0, so no special formula is needed: with h ≈ c·r the
  * first cell's terms are exact for linear h.
@@ -30,8 +32,14 @@ export class DiscreteOperator {
   readonly c: Float64Array;
   /** (m−1)/g(r̄_j)², for |∇u|². */
   readonly potential: Float64Array;
-  /** V_i, the dual-cell volume of the lumped mass. */
+  /** V_i, the dual-cell volume ½(a_{i−1}Δ_{i−1} + a_iΔ_i) (the lumped mass for ρ ≡ 1). */
   readonly volume: Float64Array;
+  /** cos r̄_j, for the center integral. */
+  readonly cosMid: Float64Array;
+  /** Filled by assemble: a cell's share ½P(h̄_j)a_jΔ_j of the lumped mass of each of its nodes… */
+  readonly cellMass: Float64Array;
+  /** …and its derivative in either node value, ¼P'(h̄_j)a_jΔ_j. */
+  readonly cellMassSlope: Float64Array;
   /** Scratch for the target values [P, P', P'', Q, Q', Q'']. */
   private readonly tv = new Float64Array(6);
 
@@ -48,6 +56,9 @@ export class DiscreteOperator {
     this.c = new Float64Array(n);
     this.potential = new Float64Array(n);
     this.volume = new Float64Array(n + 1);
+    this.cosMid = new Float64Array(n);
+    this.cellMass = new Float64Array(n);
+    this.cellMassSlope = new Float64Array(n);
     const m = model.m;
     for (let j = 0; j < n; j++) {
       const d = r[j + 1]! - r[j]!;
@@ -60,6 +71,7 @@ export class DiscreteOperator {
       this.a[j] = Math.pow(g, m - 1);
       this.c[j] = (m - 1) * d * Math.pow(g, m - 3);
       this.potential[j] = (m - 1) / (g * g);
+      this.cosMid[j] = Math.cos(rm);
     }
     for (let i = 1; i < n; i++) {
       this.volume[i] = 0.5 * (this.a[i - 1]! * this.dr[i - 1]! + this.a[i]! * this.dr[i]!);
@@ -79,10 +91,15 @@ export class DiscreteOperator {
     const dr = this.dr;
     const aw = this.a;
     const cw = this.c;
-    grad.fill(0);
-    if (diag) diag.fill(0);
+    const cm = this.cellMass;
+    const cs = this.cellMassSlope;
     let energy = 0;
     let hl = h[0]!;
+    // Carries: a cell completes its left node and starts its right node, so each
+    // entry is written once (no clearing pass, no read-modify-write).
+    let gCarry = 0;
+    let dCarry = 0;
+    const withJacobian = diag !== null && upper !== null;
     for (let j = 0; j < n; j++) {
       const hr = h[j + 1]!;
       const d = dr[j]!;
@@ -93,23 +110,26 @@ export class DiscreteOperator {
       const P = tv[0]!;
       const P1 = tv[1]!;
       const Q = tv[3]!;
-      const Q1 = tv[4]!;
       const aP = a * P;
       const A = aP * s;
-      const B = 0.25 * (a * d * P1 * s * s + c * Q1);
-      grad[j] = grad[j]! - A + B;
-      grad[j + 1] = grad[j + 1]! + A + B;
+      const B = 0.25 * (a * d * P1 * s * s + c * tv[4]!);
+      grad[j] = gCarry - A + B;
+      gCarry = A + B;
       energy += 0.5 * (aP * d * s * s + c * Q);
-      if (diag !== null && upper !== null) {
+      cm[j] = 0.5 * aP * d;
+      cs[j] = 0.25 * a * d * P1;
+      if (withJacobian) {
         const C0 = 0.125 * (a * d * tv[2]! * s * s + c * tv[5]!);
         const C1 = 0.5 * a * P1 * s;
         const k = aP / d;
-        diag[j] = diag[j]! + k - 2 * C1 + C0;
-        diag[j + 1] = diag[j + 1]! + k + 2 * C1 + C0;
+        diag[j] = dCarry + k - 2 * C1 + C0;
+        dCarry = k + 2 * C1 + C0;
         upper[j] = C0 - k;
       }
       hl = hr;
     }
+    grad[n] = gCarry;
+    if (withJacobian) diag[n] = dCarry;
     return energy;
   }
 
@@ -128,17 +148,18 @@ export class DiscreteOperator {
   }
 
   /**
-   * τ_i = −G_i / (P(h_i) V_i) at interior nodes (0 at the Dirichlet ends) into `tau`,
-   * given the gradient. Returns Σ P(h_i) V_i τ_i² (‖τ‖_h² without |S^(m−1)|).
+   * τ_i = −G_i / M_i at interior nodes (0 at the Dirichlet ends) into `tau`, given the
+   * gradient and the masses of the last {@link assemble} at the same h. Returns
+   * Σ M_i τ_i² (‖τ‖_h² without |S^(m−1)|).
    */
-  tension(h: Float64Array, grad: Float64Array, tau: Float64Array): number {
+  tension(grad: Float64Array, tau: Float64Array): number {
     const n = this.cells;
-    const target = this.model.target;
+    const cm = this.cellMass;
     let norm2 = 0;
     tau[0] = 0;
     tau[n] = 0;
     for (let i = 1; i < n; i++) {
-      const mass = target.rhoSquared(h[i]!) * this.volume[i]!;
+      const mass = cm[i - 1]! + cm[i]!;
       const t = -grad[i]! / mass;
       tau[i] = t;
       norm2 += mass * t * t;
@@ -147,29 +168,55 @@ export class DiscreteOperator {
   }
 
   /**
-   * max over cells of |∇u| = sqrt(P(h̄) s² + (m−1) Q(h̄)/g²), its cell index, and the
-   * center integral Σ cos r̄_j e_j a_j Δ_j (numerics.md §1, "center") in out[0..2].
+   * One pass for the diagnostics of numerics.md §3: gradient, energy (returned, without
+   * |S^(m−1)|), masses, and into out[0..2] max over cells of |∇u| = sqrt(P(h̄)s² +
+   * (m−1)Q(h̄)/g²), its cell, and the center integral Σ cos r̄_j e_j a_j Δ_j (§1).
    */
-  gradientAndCenter(h: Float64Array, out: Float64Array): void {
+  diagnostics(h: Float64Array, grad: Float64Array, out: Float64Array): number {
     const n = this.cells;
     const tv = this.tv;
     const target = this.model.target;
+    const dr = this.dr;
+    const aw = this.a;
+    const cw = this.c;
+    const cm = this.cellMass;
+    const cs = this.cellMassSlope;
+    const pot = this.potential;
+    const cosMid = this.cosMid;
+    grad.fill(0);
+    let energy = 0;
     let best = -1;
     let at = 0;
     let center = 0;
-    const sphere = this.model.domain === 'sphere';
+    let hl = h[0]!;
     for (let j = 0; j < n; j++) {
-      const s = (h[j + 1]! - h[j]!) / this.dr[j]!;
-      target.evaluate(0.5 * (h[j]! + h[j + 1]!), tv);
-      const e2 = tv[0]! * s * s + this.potential[j]! * tv[3]!;
+      const hr = h[j + 1]!;
+      const d = dr[j]!;
+      const a = aw[j]!;
+      const c = cw[j]!;
+      const s = (hr - hl) / d;
+      target.evaluate(0.5 * (hl + hr), tv);
+      const P = tv[0]!;
+      const Q = tv[3]!;
+      const aP = a * P;
+      const A = aP * s;
+      const B = 0.25 * (a * d * tv[1]! * s * s + c * tv[4]!);
+      grad[j] = grad[j]! - A + B;
+      grad[j + 1] = grad[j + 1]! + A + B;
+      energy += 0.5 * (aP * d * s * s + c * Q);
+      cm[j] = 0.5 * aP * d;
+      cs[j] = 0.25 * a * d * tv[1]!;
+      const e2 = P * s * s + pot[j]! * Q;
       if (e2 > best) {
         best = e2;
         at = j;
       }
-      if (sphere) center += Math.cos(this.rMid[j]!) * 0.5 * e2 * this.a[j]! * this.dr[j]!;
+      center += cosMid[j]! * e2 * a * d;
+      hl = hr;
     }
     out[0] = Math.sqrt(best);
     out[1] = at;
-    out[2] = center;
+    out[2] = 0.5 * center;
+    return energy;
   }
 }

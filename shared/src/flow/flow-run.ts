@@ -31,7 +31,8 @@ export type OutcomeReason =
   | 't-max'
   | 'cpu-budget'
   | 'non-finite'
-  | 'newton-failure';
+  | 'newton-failure'
+  | 'concentration';
 
 export const OUTCOME_CODES: readonly (FlowOutcome | null)[] = [
   null,
@@ -51,6 +52,7 @@ export const REASON_CODES: readonly (OutcomeReason | null)[] = [
   'cpu-budget',
   'non-finite',
   'newton-failure',
+  'concentration',
 ];
 
 /**
@@ -129,6 +131,13 @@ export const ENGINE_SETTINGS = {
   sampleLambdaFactor: 1.25,
   /** Bound on the sample buffer the caller drains. */
   sampleBufferSize: 4096,
+  /**
+   * A run that reaches the tension threshold after max|∇u| grew by this factor at
+   * a pole has not found a smooth harmonic map: the concentrated profile is held
+   * by the grid (its scale shrinks with the grid spacing). It ends as `blowup`
+   * (reason `concentration`), never as `converged`.
+   */
+  concentrationGrowth: 1e4,
 } as const;
 
 /**
@@ -158,7 +167,7 @@ export interface FlowRun {
   center: number;
   /** Samples waiting to be drained by the caller (not checkpointed: drain before saving). */
   samples: DiagnosticSample[];
-  /** Scratch for gradientAndCenter. */
+  /** Scratch for DiscreteOperator.diagnostics. */
   readonly scratch3: Float64Array;
 }
 
@@ -197,9 +206,8 @@ export function rebuildDerived(run: FlowRun): void {
 export function refreshDiagnostics(run: FlowRun): void {
   const op = run.op;
   const grad = run.ws.grad;
-  const e = op.assemble(run.h, grad, null, null);
-  const t2 = op.tension(run.h, grad, run.tau);
-  op.gradientAndCenter(run.h, run.scratch3);
+  const e = op.diagnostics(run.h, grad, run.scratch3);
+  const t2 = op.tension(grad, run.tau);
   const f = run.model.energyFactor;
   run.energy = f * e;
   run.tension = Math.sqrt(f * t2);
@@ -485,7 +493,12 @@ function afterStep(run: FlowRun, reachedEnd: boolean): void {
   }
   maybeRefine(run);
   recordHistory(run, false);
-  if (run.tension <= spec.stop.tension) setOutcome(run, 'converged', 'tension');
+  if (run.tension <= spec.stop.tension) {
+    const concentrated =
+      run.gradMax >= ENGINE_SETTINGS.concentrationGrowth * s.gradMaxInitial && atPole(run);
+    if (concentrated) setOutcome(run, 'blowup', 'concentration');
+    else setOutcome(run, 'converged', 'tension');
+  }
   else if (run.gradMax >= spec.stop.gradientBound) setOutcome(run, 'blowup', 'gradient-bound');
   else if (s.refinementCapped > 0) {
     // Fewer than two cells per λ and no room to refine: the singularity outran the cap.
@@ -502,6 +515,13 @@ function afterStep(run: FlowRun, reachedEnd: boolean): void {
     if (done) recordHistory(run, true);
     pushSample(run);
   }
+}
+
+/** Whether max|∇u| sits in the graded zone of a pole. */
+function atPole(run: FlowRun): boolean {
+  const at = run.op.rMid[run.gradMaxCell]!;
+  const zone = Math.min(run.model.length / 4, Math.PI / 4);
+  return (run.model.leftPole && at <= zone) || (run.model.rightPole && run.model.length - at <= zone);
 }
 
 /** Symmetry mode used by the run. */

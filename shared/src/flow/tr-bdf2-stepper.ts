@@ -53,6 +53,7 @@ export class StepperWorkspace {
   readonly hUpper: Float64Array;
   readonly jDiag: Float64Array;
   readonly jUpper: Float64Array;
+  readonly jLower: Float64Array;
   readonly delta: Float64Array;
   readonly work: Float64Array;
   constructor(readonly op: DiscreteOperator) {
@@ -68,6 +69,7 @@ export class StepperWorkspace {
     this.hUpper = new Float64Array(n);
     this.jDiag = new Float64Array(n);
     this.jUpper = new Float64Array(n);
+    this.jLower = new Float64Array(n);
     this.delta = new Float64Array(n);
     this.work = new Float64Array(n);
   }
@@ -79,21 +81,23 @@ export class StepperWorkspace {
   private newton(rhs: Float64Array, z: Float64Array, theta: number, tol: number): number {
     const op = this.op;
     const n = op.cells;
-    const target = op.model.target;
-    const vol = op.volume;
-    const { grad, hDiag, hUpper, jDiag, jUpper, delta, work } = this;
+    const cm = op.cellMass;
+    const cs = op.cellMassSlope;
+    const { grad, hDiag, hUpper, jDiag, jUpper, jLower, delta, work } = this;
     let previous = Infinity;
     for (let it = 1; it <= NEWTON_MAX_ITERATIONS; it++) {
       op.assemble(z, grad, hDiag, hUpper);
+      // Row i: M_i(z)(z_i − rhs_i) + θ G_i(z); M_i = cm[i−1] + cm[i] depends on z_{i−1}, z_i, z_{i+1}.
       for (let i = 1; i < n; i++) {
-        const zi = z[i]!;
-        const diff = zi - rhs[i]!;
-        const mv = target.rhoSquared(zi) * vol[i]!;
-        delta[i] = mv * diff + theta * grad[i]!;
-        jDiag[i] = target.rhoSquaredPrime(zi) * vol[i]! * diff + mv + theta * hDiag[i]!;
-        jUpper[i] = theta * hUpper[i]!;
+        const diff = z[i]! - rhs[i]!;
+        const sl = cs[i - 1]!;
+        const sr = cs[i]!;
+        delta[i] = (cm[i - 1]! + cm[i]!) * diff + theta * grad[i]!;
+        jDiag[i] = cm[i - 1]! + cm[i]! + (sl + sr) * diff + theta * hDiag[i]!;
+        jLower[i - 1] = sl * diff + theta * hUpper[i - 1]!;
+        jUpper[i] = sr * diff + theta * hUpper[i]!;
       }
-      if (!solveTridiagonal(1, n - 1, jUpper, jDiag, jUpper, delta, work)) return -1;
+      if (!solveTridiagonal(1, n - 1, jLower, jDiag, jUpper, delta, work)) return -1;
       let size = 0;
       for (let i = 1; i < n; i++) {
         const di = delta[i]!;
@@ -116,9 +120,8 @@ export class StepperWorkspace {
   attempt(y: Float64Array, fn: Float64Array, dt: number, tolerance: number): StepAttempt {
     const op = this.op;
     const n = op.cells;
-    const target = op.model.target;
-    const vol = op.volume;
-    const { z, y1, rhs1, rhs2, fg, f1, delta, work, jDiag, jUpper } = this;
+    const cm = op.cellMass;
+    const { z, y1, rhs1, rhs2, fg, f1, delta, work, jDiag, jUpper, jLower } = this;
     const theta = TR_D * dt;
     const newtonTol = 1e-3 * tolerance;
     z[0] = y[0]!;
@@ -143,10 +146,10 @@ export class StepperWorkspace {
       const f = (y1[i]! - rhs2[i]!) / theta;
       f1[i] = f;
       const e = scale * (E_N * fn[i]! + E_G * fg[i]! + E_1 * f);
-      delta[i] = target.rhoSquared(y1[i]!) * vol[i]! * e;
+      delta[i] = (cm[i - 1]! + cm[i]!) * e;
     }
     // Stiff filter (Hosea & Shampine): ê = (M + θH)⁻¹ M e, with the last Newton matrix.
-    if (!solveTridiagonal(1, n - 1, jUpper, jDiag, jUpper, delta, work)) {
+    if (!solveTridiagonal(1, n - 1, jLower, jDiag, jUpper, delta, work)) {
       return { ok: false, error: Infinity, iterations: it1 + it2 };
     }
     let err = 0;

@@ -18,14 +18,17 @@ export function solveTridiagonal(
   work: Float64Array,
 ): boolean {
   // Row i: lower[i−1]·x_{i−1} + diag[i]·x_i + upper[i]·x_{i+1} = rhs[i]
-  let pivot = diag[lo]!;
-  if (!(Math.abs(pivot) > 0) || !Number.isFinite(pivot)) return false;
-  rhs[lo] = rhs[lo]! / pivot;
+  let inv = 1 / diag[lo]!;
+  if (!Number.isFinite(inv)) return false;
+  rhs[lo] = rhs[lo]! * inv;
   for (let i = lo + 1; i <= hi; i++) {
-    work[i - 1] = upper[i - 1]! / pivot;
-    pivot = diag[i]! - lower[i - 1]! * work[i - 1]!;
-    if (!(Math.abs(pivot) > 0) || !Number.isFinite(pivot)) return false;
-    rhs[i] = (rhs[i]! - lower[i - 1]! * rhs[i - 1]!) / pivot;
+    const w = upper[i - 1]! * inv;
+    work[i - 1] = w;
+    const l = lower[i - 1]!;
+    inv = 1 / (diag[i]! - l * w);
+    // A zero or non-finite pivot gives a non-finite reciprocal.
+    if (!Number.isFinite(inv)) return false;
+    rhs[i] = (rhs[i]! - l * rhs[i - 1]!) * inv;
   }
   for (let i = hi - 1; i >= lo; i--) {
     rhs[i] = rhs[i]! - work[i]! * rhs[i + 1]!;
