@@ -50,6 +50,7 @@ function cpu(): number {
 function runCase(name: string): void {
   const c = CASES[name];
   if (!c) throw new Error(`unknown case ${name}`);
+  const rssBefore = process.memoryUsage().rss / 2 ** 20;
   const t0 = cpu();
   const run = createFlowRun(parseRunSpec(c.spec));
   const lambda0 = 1 / run.gradMax;
@@ -66,6 +67,7 @@ function runCase(name: string): void {
       rejectedSteps: d.rejectedSteps,
       regrids: d.regrids,
       maxRssMiB: process.resourceUsage().maxRSS / 1024,
+      rssBeforeMiB: rssBefore,
     })}\n`,
   );
 }
@@ -119,7 +121,7 @@ function main(): void {
     );
   }
   console.log('\n## Time to outcome (each run in its own process)\n');
-  console.log('| case | outcome | t_final | steps (rejected) | Newton its | N final | regrids | CPU s | peak RSS MiB | details |');
+  console.log('| case | outcome | t_final | steps (rejected) | Newton its | N final | regrids | CPU s | peak RSS MiB (before run) | details |');
   console.log('|---|---|---:|---:|---:|---:|---:|---:|---:|---|');
   for (const [name, c] of Object.entries(CASES)) {
     const child = spawnSync(process.execPath, [...process.execArgv, __filename, '--case', name], {
@@ -141,7 +143,7 @@ function main(): void {
         `(${decades.toFixed(1)} decades${sqrtEpsT ? `; √(εT) = ${sqrtEpsT.toExponential(2)}` : ''}), confidence ${r.blowup.confidence.toFixed(3)}`;
     }
     console.log(
-      `| ${c.title} | ${r.outcome} (${r.reason}) | ${r.tFinal.toPrecision(10)} | ${r.steps} (${r.rejectedSteps}) | ${r.newtonIterations} | ${r.gridPoints} | ${r.regrids} | ${r.cpuSeconds.toFixed(2)} | ${r.maxRssMiB.toFixed(0)} | ${details} |`,
+      `| ${c.title} | ${r.outcome} (${r.reason}) | ${r.tFinal.toPrecision(10)} | ${r.steps} (${r.rejectedSteps}) | ${r.newtonIterations} | ${r.gridPoints} | ${r.regrids} | ${r.cpuSeconds.toFixed(2)} | ${r.maxRssMiB.toFixed(0)} (${r.rssBeforeMiB.toFixed(0)}) | ${details} |`,
     );
   }
 }
