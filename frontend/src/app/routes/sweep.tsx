@@ -9,7 +9,7 @@ import { paths } from '@/config/paths';
 import { useStudy } from '@/features/studies/api/get-studies';
 import { activeRunCount, sweepQueryOptions, useSweep } from '@/features/sweeps/api/get-sweep';
 import { OutcomeMap } from '@/features/sweeps/components/outcome-map';
-import { axisLabel, sweepAxesOf } from '@/features/sweeps/components/sweep-axes';
+import { axisLabel, formatAxisValue, sweepAxesOf } from '@/features/sweeps/components/sweep-axes';
 import { SweepRunsTable } from '@/features/sweeps/components/sweep-runs-table';
 import { downloadFile } from '@/lib/api-client';
 import { describeError } from '@/lib/describe-error';
@@ -36,6 +36,7 @@ function SweepRoute() {
   if (sweep.isError) return <QueryError what="this sweep" error={sweep.error} onRetry={() => void sweep.refetch()} />;
   const s = sweep.data;
   const live = activeRunCount(s) > 0;
+  const version = JSON.stringify(s.counts);
 
   const download = async () => {
     setDownloading(true);
@@ -77,16 +78,16 @@ function SweepRoute() {
               const values = axisValues(axis);
               return (
                 <Descriptions.Item key={axis.path} label={axisLabel(axis.path)}>
-                  {values.length} values, {formatNumber(values[0]!, 4)} … {formatNumber(values[values.length - 1]!, 4)}
+                  {values.length} values, {formatAxisValue(axis.path, values[0])} … {formatAxisValue(axis.path, values[values.length - 1])}
                   {axis.range ? ` (${axis.range.scale})` : ''}
                 </Descriptions.Item>
               );
             })}
           </Descriptions>
         </Card>
-        <OutcomeMap sweepId={s.id} axes={axes} live={live} />
+        <OutcomeMap sweepId={s.id} axes={axes} live={live} version={version} />
         <Card title="Runs" className="panel" size="small">
-          <SweepRunsTable sweepId={s.id} axes={axes} live={live} />
+          <SweepRunsTable sweepId={s.id} axes={axes} live={live} version={version} />
         </Card>
       </div>
     </div>

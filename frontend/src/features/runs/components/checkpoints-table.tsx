@@ -3,7 +3,7 @@ import { App, Button, Popconfirm, Space, Table, type TableColumnsType } from 'an
 import { IconDownload, IconFork, IconRunning } from '@/components/icons';
 import { downloadFile } from '@/lib/api-client';
 import { describeError } from '@/lib/describe-error';
-import { formatBytes, formatCpu, formatDateTime, formatNumber, shortId } from '@/lib/format';
+import { formatBytes, formatCpu, formatDateTime, formatNumber, formatTime, shortId } from '@/lib/format';
 import { useResumeFromCheckpoint } from '../api/checkpoint-actions';
 
 const reasonWord: Record<string, string> = {
@@ -39,8 +39,8 @@ export function CheckpointsTable({
     { title: 'Points', dataIndex: 'points', className: 'numeric-cell' },
     { title: 'Written', dataIndex: 'reason', render: (r: string) => reasonWord[r] ?? r },
     { title: 'CPU so far', dataIndex: 'cpuSeconds', render: (s: number) => formatCpu(s), className: 'numeric-cell' },
-    { title: 'Size', dataIndex: 'sizeBytes', render: (b: number) => formatBytes(b), className: 'numeric-cell' },
-    { title: 'At', dataIndex: 'createdAt', render: (at: string) => formatDateTime(at), className: 'numeric-cell' },
+    { title: 'Size', dataIndex: 'sizeBytes', render: (b: number) => formatBytes(b), className: 'numeric-cell', responsive: ['xxl'] },
+    { title: 'At', dataIndex: 'createdAt', render: (at: string) => <span title={formatDateTime(at)}>{formatTime(at)}</span>, className: 'numeric-cell' },
     {
       title: '',
       key: 'actions',
@@ -90,6 +90,7 @@ export function CheckpointsTable({
       size="small"
       columns={columns}
       dataSource={[...checkpoints].reverse()}
+      scroll={{ x: 'max-content' }}
       pagination={checkpoints.length > 10 ? { pageSize: 10, showSizeChanger: false } : false}
       locale={{ emptyText: 'No checkpoints yet: the worker writes one every minute and at pause, cancel and the outcome.' }}
     />

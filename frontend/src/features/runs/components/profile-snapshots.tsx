@@ -1,6 +1,6 @@
 import type { CheckpointInfo, RunSpec } from '@kiln/shared';
 import { Radio, Skeleton, Slider } from 'antd';
-import { useEffect, useMemo, useState } from 'react';
+import { useMemo, useState } from 'react';
 import { Chart } from '@/components/chart';
 import { QueryError } from '@/components/query-error';
 import { palette } from '@/config/palette';
@@ -15,9 +15,11 @@ type XScale = 'r' | 'log-r' | 'log-pole';
  * or log(π − r) (the sphere's other pole).
  */
 export function ProfileSnapshots({ checkpoints, spec }: { checkpoints: CheckpointInfo[]; spec: RunSpec }) {
-  const [index, setIndex] = useState(checkpoints.length - 1);
+  // Follows the newest checkpoint until the person picks one with the slider.
+  const [picked, setPicked] = useState<number | null>(null);
+  const index = picked ?? checkpoints.length - 1;
+  const setIndex = (i: number) => setPicked(i === checkpoints.length - 1 ? null : i);
   const [scale, setScale] = useState<XScale>('r');
-  useEffect(() => setIndex((i) => (i < 0 || i >= checkpoints.length ? checkpoints.length - 1 : i)), [checkpoints.length]);
   const checkpoint = checkpoints[Math.max(0, Math.min(index, checkpoints.length - 1))];
   const profile = useCheckpointProfile(checkpoint?.id);
   const sphere = spec.domain.kind === 'sphere';

@@ -9,7 +9,9 @@ import { formatAge, formatCpu, formatNumber, shortId } from '@/lib/format';
 export function runLabel(run: Run): string {
   const entries = Object.entries(run.axisValues ?? {});
   if (entries.length === 0) return run.parentRunId ? 'fork' : 'single run';
-  return entries.map(([path, value]) => `${path.split('.').pop()} = ${formatNumber(value, 4)}`).join(', ');
+  return entries
+    .map(([path, value]) => `${path.split('.').pop()} = ${path === 'domain.boundaryAngle' ? `${formatNumber(value / Math.PI, 4)}π` : formatNumber(value, 4)}`)
+    .join(', ');
 }
 
 /** A compact list of runs (overview, study page); each row opens its run. */

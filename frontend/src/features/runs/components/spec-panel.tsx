@@ -18,6 +18,9 @@ function initialText(spec: RunSpec): string {
   }
 }
 
+const SUPERSCRIPT = '⁰¹²³⁴⁵⁶⁷⁸⁹';
+const sup = (n: number) => String(n).replace(/\d/g, (d) => SUPERSCRIPT[Number(d)]!);
+
 /** The run's spec (normalized, defaults filled) in words and numbers. */
 export function SpecPanel({ spec }: { spec: RunSpec }) {
   const d = spec.domain;
@@ -26,7 +29,7 @@ export function SpecPanel({ spec }: { spec: RunSpec }) {
     <Card title="Spec" className="panel" size="small">
       <dl className="facts facts--two">
         <dt>Domain</dt>
-        <dd>{d.kind === 'ball' ? `ball B${d.dim}, boundary angle α = ${formatAngle(d.boundaryAngle)}` : `sphere S${d.dim}`}</dd>
+        <dd>{d.kind === 'ball' ? `ball B${sup(d.dim)}, boundary angle α = ${formatAngle(d.boundaryAngle)}` : `sphere S${sup(d.dim)}`}</dd>
         <dt>Target</dt>
         <dd>{t.kind === 'ellipsoid' ? `ellipsoid, axis ratio b = ${formatNumber(t.axisRatio, 4)}` : t.kind === 'sphere' ? 'round sphere' : `profile ${t.uploadId}`}</dd>
         <dt>Flow</dt>

@@ -9,17 +9,17 @@ export type SweepRunsQuery = Partial<RunListQuery>;
 export const getSweepRuns = (sweepId: string, query: SweepRunsQuery, signal?: AbortSignal) =>
   api.get<Page<Run>>(`/sweeps/${sweepId}/runs${toQueryString(query)}`, signal);
 
-export const sweepRunsQueryOptions = (sweepId: string, query: SweepRunsQuery, live: boolean) =>
+export const sweepRunsQueryOptions = (sweepId: string, query: SweepRunsQuery, live: boolean, version = '') =>
   queryOptions({
-    queryKey: sweepKeys.runs(sweepId, query),
+    queryKey: sweepKeys.runs(sweepId, query, version),
     queryFn: ({ signal }) => getSweepRuns(sweepId, query, signal),
     staleTime: 2_000,
     placeholderData: keepPreviousData,
     refetchInterval: live ? 2_000 : false,
   });
 
-export const useSweepRuns = (sweepId: string, query: SweepRunsQuery, live: boolean) =>
-  useQuery(sweepRunsQueryOptions(sweepId, query, live));
+export const useSweepRuns = (sweepId: string, query: SweepRunsQuery, live: boolean, version = '') =>
+  useQuery(sweepRunsQueryOptions(sweepId, query, live, version));
 
 const MAP_PAGE = 500;
 /** The outcome map reads at most this many runs (10 pages). */
@@ -36,12 +36,14 @@ export async function getAllSweepRuns(sweepId: string, signal?: AbortSignal): Pr
   return runs;
 }
 
-export const allSweepRunsQueryOptions = (sweepId: string, live: boolean) =>
+export const allSweepRunsQueryOptions = (sweepId: string, live: boolean, version = '') =>
   queryOptions({
-    queryKey: sweepKeys.allRuns(sweepId),
+    queryKey: sweepKeys.allRuns(sweepId, version),
     queryFn: ({ signal }) => getAllSweepRuns(sweepId, signal),
     staleTime: 2_000,
+    placeholderData: keepPreviousData,
     refetchInterval: live ? 3_000 : false,
   });
 
-export const useAllSweepRuns = (sweepId: string, live: boolean) => useQuery(allSweepRunsQueryOptions(sweepId, live));
+export const useAllSweepRuns = (sweepId: string, live: boolean, version = '') =>
+  useQuery(allSweepRunsQueryOptions(sweepId, live, version));

@@ -10,7 +10,7 @@ import { outcomeLook, runStateLook } from '@/components/run-status';
 import { paths } from '@/config/paths';
 import { formatNumber } from '@/lib/format';
 import { useAllSweepRuns } from '../api/get-sweep-runs';
-import { axisLabel, axisValuesOf } from './sweep-axes';
+import { axisLabel, axisValuesOf, formatAxisValue } from './sweep-axes';
 
 /** The four kinds of cell; the colour always comes with the word or T̂ written in the cell. */
 export const CELL_KINDS = [
@@ -43,9 +43,9 @@ const same = (a: number, b: number) => Math.abs(a - b) <= 1e-12 * Math.max(1, Ma
  * Outcomes over two chosen axes (an ECharts heatmap). With more than two axes the
  * others are held at one chosen value each. Every cell opens its run.
  */
-export function OutcomeMap({ sweepId, axes, live }: { sweepId: string; axes: SweepAxis[]; live: boolean }) {
+export function OutcomeMap({ sweepId, axes, live, version }: { sweepId: string; axes: SweepAxis[]; live: boolean; version: string }) {
   const navigate = useNavigate();
-  const runs = useAllSweepRuns(sweepId, live);
+  const runs = useAllSweepRuns(sweepId, live, version);
   const [xPath, setXPath] = useState(axes[0]?.path);
   const [yPath, setYPath] = useState(axes[1]?.path);
   const [fixed, setFixed] = useState<Record<string, number>>({});
@@ -85,14 +85,14 @@ export function OutcomeMap({ sweepId, axes, live }: { sweepId: string; axes: Swe
         tooltip: {
           formatter: (p: { data: { value: [number, number, number]; text: string } }) => {
             const [xi, yi] = p.data.value;
-            const y = yPath ? `<br/>${axisLabel(yPath)} = ${formatNumber(model.yValues[yi], 4)}` : '';
-            return `${axisLabel(xPath!)} = ${formatNumber(model.xValues[xi], 4)}${y}<br/><b>${p.data.text.replace('\n', ' ')}</b><br/>click to open the run`;
+            const y = yPath ? `<br/>${axisLabel(yPath)} = ${formatAxisValue(yPath, model.yValues[yi])}` : '';
+            return `${axisLabel(xPath!)} = ${formatAxisValue(xPath!, model.xValues[xi])}${y}<br/><b>${p.data.text.replace('\n', ' ')}</b><br/>click to open the run`;
           },
         },
         grid: MAP_GRID,
         xAxis: {
           type: 'category',
-          data: model.xValues.map((v) => formatNumber(v, 4)),
+          data: model.xValues.map((v) => formatAxisValue(xPath!, v)),
           name: axisLabel(xPath!),
           nameLocation: 'middle',
           nameGap: 32,
@@ -100,7 +100,7 @@ export function OutcomeMap({ sweepId, axes, live }: { sweepId: string; axes: Swe
         },
         yAxis: {
           type: 'category',
-          data: yPath ? model.yValues.map((v) => (yPath === 'domain.boundaryAngle' ? `${formatNumber(v / Math.PI, 3)}π` : formatNumber(v, 4))) : [''],
+          data: yPath ? model.yValues.map((v) => formatAxisValue(yPath, v)) : [''],
           name: yPath ? axisLabel(yPath) : '',
           nameLocation: 'middle',
           nameGap: 60,
@@ -165,7 +165,7 @@ export function OutcomeMap({ sweepId, axes, live }: { sweepId: string; axes: Swe
                   <Select
                     value={model.held[a.path]}
                     onChange={(v) => setFixed((f) => ({ ...f, [a.path]: v }))}
-                    options={axisValuesOf(a).map((v) => ({ value: v, label: formatNumber(v, 4) }))}
+                    options={axisValuesOf(a).map((v) => ({ value: v, label: formatAxisValue(a.path, v) }))}
                     style={{ width: 120 }}
                   />
                 </label>

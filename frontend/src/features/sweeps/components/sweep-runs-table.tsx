@@ -8,7 +8,7 @@ import { OutcomeTag, outcomeLook, RunStateTag, runStateLook } from '@/components
 import { paths } from '@/config/paths';
 import { formatCpu, formatNumber } from '@/lib/format';
 import { useSweepRuns, type SweepRunsQuery } from '../api/get-sweep-runs';
-import { axisLabel } from './sweep-axes';
+import { axisLabel, formatAxisValue } from './sweep-axes';
 
 type SortKey = NonNullable<SweepRunsQuery['sort']>;
 const OUTCOMES = Object.keys(outcomeLook) as FlowOutcome[];
@@ -19,9 +19,9 @@ function blowupTime(run: Run): number | null {
 }
 
 /** The sweep's runs: filter by state and outcome, sort and page on the server. */
-export function SweepRunsTable({ sweepId, axes, live }: { sweepId: string; axes: SweepAxis[]; live: boolean }) {
+export function SweepRunsTable({ sweepId, axes, live, version }: { sweepId: string; axes: SweepAxis[]; live: boolean; version: string }) {
   const [query, setQuery] = useState<SweepRunsQuery>({ sort: 'index', order: 'asc', page: 1, pageSize: 25 });
-  const runs = useSweepRuns(sweepId, query, live);
+  const runs = useSweepRuns(sweepId, query, live, version);
 
   const sortOrder = (key: SortKey) => (query.sort === key ? (query.order === 'desc' ? 'descend' : 'ascend') : null);
   const columns: TableColumnsType<Run> = [
@@ -37,7 +37,7 @@ export function SweepRunsTable({ sweepId, axes, live }: { sweepId: string; axes:
     ...axes.map((axis) => ({
       title: axisLabel(axis.path),
       key: axis.path,
-      render: (_: unknown, run: Run) => formatNumber(run.axisValues[axis.path], 4),
+      render: (_: unknown, run: Run) => formatAxisValue(axis.path, run.axisValues[axis.path]),
       className: 'numeric-cell',
     })),
     { title: 'State', key: 'state', sorter: true, sortOrder: sortOrder('state'), render: (_, run) => <RunStateTag state={run.state} /> },
