@@ -399,22 +399,20 @@ function cpuExhausted(opts: AdvanceOptions): boolean {
  * ended with `time-limit` for its CPU budget continues when called with a larger budget.
  */
 export function advanceFlowRun(run: FlowRun, opts: AdvanceOptions = {}): AdvanceResult {
-  let { outcome, reason } = runOutcome(run);
+  const { outcome, reason } = runOutcome(run);
   if (outcome === 'time-limit' && reason === 'cpu-budget' && !cpuExhausted(opts)) {
     run.s.outcomeCode = 0;
     run.s.reasonCode = 0;
-    outcome = null;
   }
   const maxSteps = opts.maxSteps ?? Infinity;
   let steps = 0;
-  while (outcome === null && steps < maxSteps) {
+  while (run.s.outcomeCode === 0 && steps < maxSteps) {
     if (cpuExhausted(opts)) {
       setOutcome(run, 'time-limit', 'cpu-budget');
       break;
     }
     if (opts.shouldStop?.()) break;
     if (stepOnce(run)) steps++;
-    outcome = runOutcome(run).outcome;
   }
   const o = runOutcome(run);
   return { done: o.outcome !== null, outcome: o.outcome, reason: o.reason, steps };
@@ -452,30 +450,28 @@ function stepOnce(run: FlowRun): boolean {
     let dt = Math.min(s.dt, spec.time.maxStep);
     const last = dt >= remaining;
     if (last) dt = remaining;
-    const attempt = run.ws.attempt(run.h, run.tau, dt, tol);
-    s.newtonIterations += attempt.iterations;
-    s.pointIterations += attempt.iterations * (run.op.cells - 1);
-    if (!attempt.ok || attempt.error > 1) {
+    const ws = run.ws;
+    const ok = ws.attempt(run.h, run.tau, dt, tol);
+    const error = ws.lastError;
+    s.newtonIterations += ws.lastIterations;
+    s.pointIterations += ws.lastIterations * (run.op.cells - 1);
+    if (!ok || error > 1) {
       s.rejectedSteps += 1;
       s.consecutiveRejections += 1;
-      const factor = attempt.ok ? Math.max(E.shrinkMin, E.safety * Math.pow(attempt.error, -1 / 3)) : 0.25;
+      const factor = ok ? Math.max(E.shrinkMin, E.safety * Math.pow(error, -1 / 3)) : 0.25;
       s.dt = dt * factor;
-      if (s.dt * run.gradMax * run.gradMax < E.collapse) {
-        failStep(run, attempt.ok ? 'step-collapse' : 'newton-failure');
-        return false;
-      }
-      if (s.consecutiveRejections > E.maxConsecutiveRejections) {
-        failStep(run, attempt.ok ? 'step-collapse' : 'newton-failure');
+      if (s.dt * run.gradMax * run.gradMax < E.collapse || s.consecutiveRejections > E.maxConsecutiveRejections) {
+        failStep(run, ok ? 'step-collapse' : 'newton-failure');
         return false;
       }
       continue;
     }
     // Accept.
-    run.h.set(run.ws.y1);
+    run.h.set(ws.y1);
     addTime(s, dt);
     s.step += 1;
     s.consecutiveRejections = 0;
-    const growth = Math.min(E.growthMax, E.safety * Math.pow(Math.max(attempt.error, 1e-10), -1 / 3));
+    const growth = Math.min(E.growthMax, E.safety * Math.pow(Math.max(error, 1e-10), -1 / 3));
     s.dt = Math.min(spec.time.maxStep, dt * growth);
     refreshDiagnostics(run);
     afterStep(run, last);

@@ -30,15 +30,6 @@ const E_1 = 1 / (1 - TR_GAMMA);
 /** Newton gives up after this many iterations in one stage. */
 const NEWTON_MAX_ITERATIONS = 10;
 
-/** Outcome of one attempted step. */
-export interface StepAttempt {
-  /** Newton converged in both stages. */
-  ok: boolean;
-  /** Scaled error estimate (accept when ≤ 1); Infinity when Newton failed. */
-  error: number;
-  /** Newton iterations used (both stages). */
-  iterations: number;
-}
 
 /** Arrays of one stepper, preallocated per grid (reallocated only on regrid). */
 export class StepperWorkspace {
@@ -56,6 +47,12 @@ export class StepperWorkspace {
   readonly jLower: Float64Array;
   readonly delta: Float64Array;
   readonly work: Float64Array;
+  /** Result of the last {@link attempt} (fields, not a returned object: no allocation per step). */
+  lastOk = false;
+  /** Scaled error estimate of the last attempt (accept when ≤ 1); Infinity when Newton failed. */
+  lastError = Infinity;
+  /** Newton iterations of the last attempt (both stages). */
+  lastIterations = 0;
   constructor(readonly op: DiscreteOperator) {
     const n = op.cells + 1;
     this.z = new Float64Array(n);
@@ -116,8 +113,9 @@ export class StepperWorkspace {
   /**
    * Attempts one TR-BDF2 step of size dt from y with F(y) = fn given (exact discrete
    * tension at y). On success y1 holds the new solution; y and fn are not touched.
+   * Returns whether Newton converged; the error estimate is in {@link lastError}.
    */
-  attempt(y: Float64Array, fn: Float64Array, dt: number, tolerance: number): StepAttempt {
+  attempt(y: Float64Array, fn: Float64Array, dt: number, tolerance: number): boolean {
     const op = this.op;
     const n = op.cells;
     const cm = op.cellMass;
@@ -133,14 +131,14 @@ export class StepperWorkspace {
       z[i] = y[i]! + TR_GAMMA * dt * fn[i]!;
     }
     const it1 = this.newton(rhs1, z, theta, newtonTol);
-    if (it1 < 0) return { ok: false, error: Infinity, iterations: NEWTON_MAX_ITERATIONS };
+    if (it1 < 0) return this.result(false, Infinity, NEWTON_MAX_ITERATIONS);
     for (let i = 1; i < n; i++) {
       fg[i] = (z[i]! - rhs1[i]!) / theta;
       rhs2[i] = W1 * z[i]! - W0 * y[i]!;
       y1[i] = y[i]! + (z[i]! - y[i]!) / TR_GAMMA;
     }
     const it2 = this.newton(rhs2, y1, theta, newtonTol);
-    if (it2 < 0) return { ok: false, error: Infinity, iterations: it1 + NEWTON_MAX_ITERATIONS };
+    if (it2 < 0) return this.result(false, Infinity, it1 + NEWTON_MAX_ITERATIONS);
     const scale = 2 * C_LTE * dt;
     for (let i = 1; i < n; i++) {
       const f = (y1[i]! - rhs2[i]!) / theta;
@@ -150,7 +148,7 @@ export class StepperWorkspace {
     }
     // Stiff filter (Hosea & Shampine): ê = (M + θH)⁻¹ M e, with the last Newton matrix.
     if (!solveTridiagonal(1, n - 1, jLower, jDiag, jUpper, delta, work)) {
-      return { ok: false, error: Infinity, iterations: it1 + it2 };
+      return this.result(false, Infinity, it1 + it2);
     }
     let err = 0;
     for (let i = 1; i < n; i++) {
@@ -158,7 +156,14 @@ export class StepperWorkspace {
       if (a > err) err = a;
     }
     err /= tolerance;
-    if (!(err < Infinity)) return { ok: false, error: Infinity, iterations: it1 + it2 };
-    return { ok: true, error: err, iterations: it1 + it2 };
+    if (!(err < Infinity)) return this.result(false, Infinity, it1 + it2);
+    return this.result(true, err, it1 + it2);
+  }
+
+  private result(ok: boolean, error: number, iterations: number): boolean {
+    this.lastOk = ok;
+    this.lastError = error;
+    this.lastIterations = iterations;
+    return ok;
   }
 }

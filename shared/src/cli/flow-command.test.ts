@@ -1,0 +1,74 @@
+import { describe, expect, it } from 'vitest';
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
+
+const root = resolve(__dirname, '../../..');
+const command = join(root, 'shared/src/cli/flow-command.ts');
+const tsx = join(root, 'node_modules/.bin/tsx');
+
+function flow(spec: unknown) {
+  const dir = mkdtempSync(join(tmpdir(), 'kiln-flow-'));
+  const file = join(dir, 'spec.json');
+  writeFileSync(file, typeof spec === 'string' ? spec : JSON.stringify(spec));
+  return spawnSync(tsx, [command, file], { encoding: 'utf8', cwd: root });
+}
+
+describe('flow command (numerics.md §5)', () => {
+  it('runs a spec to its outcome: exactly one JSON object on stdout with the §5 fields', () => {
+    const res = flow({
+      domain: { kind: 'ball', dim: 2, boundaryAngle: 2 },
+      target: { kind: 'sphere' },
+      initial: { kind: 'identity' },
+      grid: { points: 60 },
+      time: { tMax: 20, maxStep: 1 },
+    });
+    expect(res.status).toBe(0);
+    const lines = res.stdout.trim().split('\n');
+    expect(lines).toHaveLength(1);
+    const out = JSON.parse(lines[0]!);
+    for (const key of [
+      'outcome',
+      'tFinal',
+      'steps',
+      'gridPoints',
+      'energyInitial',
+      'energyFinal',
+      'tensionFinal',
+      'gradMaxFinal',
+      'center',
+      'symmetry',
+      'cpuSeconds',
+      'blowup',
+    ]) {
+      expect(out).toHaveProperty(key);
+    }
+    expect(out.outcome).toBe('converged');
+    expect(out.blowup).toBeNull();
+    expect(res.stderr).toMatch(/outcome: converged/);
+  });
+
+  it('rejects a bad spec with the field named on stderr and a non-zero exit', () => {
+    const res = flow({
+      domain: { kind: 'ball', dim: 2 },
+      target: { kind: 'sphere' },
+      initial: { kind: 'identity' },
+      grid: { points: 1e9 },
+      time: { tMax: 1 },
+    });
+    expect(res.status).not.toBe(0);
+    expect(res.stdout).toBe('');
+    expect(res.stderr).toMatch(/domain\.boundaryAngle/);
+    expect(res.stderr).toMatch(/grid\.points must be an integer from 20 to 20000/);
+  });
+
+  it('rejects unreadable files and invalid JSON', () => {
+    const missing = spawnSync(tsx, [command, join(tmpdir(), 'no-such-kiln-spec.json')], { encoding: 'utf8' });
+    expect(missing.status).toBe(2);
+    expect(missing.stderr).toMatch(/cannot read/);
+    const bad = flow('{ not json');
+    expect(bad.status).toBe(2);
+    expect(bad.stderr).toMatch(/not valid JSON/);
+  });
+});
