@@ -4,6 +4,7 @@ import { createTestDatabase, type TestDatabase } from '../support/test-database'
 import { startTestRedis, type TestRedis } from '../support/redis-server';
 import {
   admitRun,
+  builtEngine,
   checkpointRows,
   createOwnerAndStudy,
   insertRun,
@@ -18,8 +19,7 @@ import {
   type WorkerProcess,
 } from '../support/worker-harness';
 import { createHash } from 'node:crypto';
-import * as engine from '@kiln/shared';
-import { advanceFlowRun, deserializeCheckpoint, parseRunSpec, summarizeFlowRun, type FlowRun, type RunSpec } from '@kiln/shared';
+import { deserializeCheckpoint, type FlowRun, type RunSpec } from '@kiln/shared';
 
 // Runs on two real worker processes (each one slot) against real PostgreSQL and a
 // private Redis; the test plays the scheduler.
@@ -115,12 +115,13 @@ describe('worker pool: runs complete on two worker processes', () => {
     await admitRun(database.db, queue, forkId);
     const row = await waitForState(database.db, forkId, ['finished', 'failed']);
 
-    const fork = (engine as unknown as { forkFlowRun?: (parent: FlowRun, spec: RunSpec) => FlowRun }).forkFlowRun;
+    const fork = (builtEngine as unknown as { forkFlowRun?: (parent: FlowRun, spec: RunSpec) => FlowRun }).forkFlowRun;
     if (typeof fork === 'function') {
-      const expected = fork(deserializeCheckpoint(new Uint8Array(parentCheckpoint.state)), parseRunSpec(forkInput));
-      advanceFlowRun(expected);
+      const parent = builtEngine.deserializeCheckpoint(new Uint8Array(parentCheckpoint.state));
+      const expected = fork(parent, builtEngine.parseRunSpec(forkInput));
+      builtEngine.advanceFlowRun(expected);
       expect(row.error).toBeNull();
-      expect(withoutCpu(row.summary)).toEqual(withoutCpu(summarizeFlowRun(expected, 0)));
+      expect(withoutCpu(row.summary)).toEqual(withoutCpu(builtEngine.summarizeFlowRun(expected, 0)));
     } else {
       expect(row.state).toBe('failed');
       expect(row.error).toMatch(/forking is not available in this engine build yet/);

@@ -5,16 +5,13 @@ import { spawn, type ChildProcess } from 'node:child_process';
 import { Queue } from 'bullmq';
 import { Redis } from 'ioredis';
 import { sql, type Kysely } from 'kysely';
+import { createRequire } from 'node:module';
+import path from 'node:path';
 import {
-  advanceFlowRun,
   CHANNELS,
-  createFlowRun,
-  drainSamples,
-  parseRunSpec,
   RUN_QUEUE,
   RunJobName,
   simulateRunJobId,
-  summarizeFlowRun,
   type DiagnosticSample,
   type FlowSummary,
   type RunEvent,
@@ -101,7 +98,7 @@ export async function createOwnerAndStudy(db: Kysely<Database>): Promise<{ owner
 export async function insertRun(db: Kysely<Database>, owner: { ownerId: string; studyId: string }, spec: RunSpecInput): Promise<string> {
   const row = await db
     .insertInto('runs')
-    .values({ study_id: owner.studyId, owner_id: owner.ownerId, spec: JSON.stringify(parseRunSpec(spec)) })
+    .values({ study_id: owner.studyId, owner_id: owner.ownerId, spec: JSON.stringify(builtEngine.parseRunSpec(spec)) })
     .returning('id')
     .executeTakeFirstOrThrow();
   return row.id;
@@ -155,6 +152,13 @@ export async function holderPid(db: Kysely<Database>, runId: string): Promise<nu
   return row?.pid ?? null;
 }
 
+/**
+ * The engine build the worker processes run (shared/dist, loaded by path): the
+ * reference comes from the same code, so an engine edit not yet built cannot make
+ * worker and reference differ. Build first (`npx tsc -b shared worker`; `npm test` does).
+ */
+export const builtEngine: typeof import('@kiln/shared') = createRequire(path.resolve('package.json'))('./shared/dist/index.js');
+
 export interface Reference {
   summary: FlowSummary;
   samples: DiagnosticSample[];
@@ -162,7 +166,8 @@ export interface Reference {
 
 /** The engine run directly, uninterrupted, to its outcome: what every worker result must equal. */
 export function referenceRun(spec: RunSpecInput): Reference {
-  const run = createFlowRun(parseRunSpec(spec));
+  const { createFlowRun, parseRunSpec: parse, advanceFlowRun, summarizeFlowRun, drainSamples } = builtEngine;
+  const run = createFlowRun(parse(spec));
   advanceFlowRun(run);
   return { summary: summarizeFlowRun(run, 0), samples: drainSamples(run) };
 }
