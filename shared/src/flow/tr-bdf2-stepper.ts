@@ -13,7 +13,8 @@ import { solveTridiagonal } from './tridiagonal';
  *   trapezoidal stage:  z  − d·dt·F(z)  = y_n + d·dt·F(y_n)
  *   BDF2 stage:         y₊ − d·dt·F(y₊) = w₁ z − w₀ y_n,  w₁ = (√2+1)/2, w₀ = (√2−1)/2
  *   error estimate:     e = 2C·dt·(F_n/γ − F_γ/(γ(1−γ)) + F₊/(1−γ)),
- *                       C = (−3γ² + 4γ − 2)/(12(2 − γ)),  filtered by (M + θH) ê = M e.
+ *                       C = (−3γ² + 4γ − 2)/(12(2 − γ)),  filtered by (M + θH) ê = M e
+ *                       (and filtered a second time before a rejection).
  *
  * A later drift term (Möbius-normalized flow, σ(t)·sin r·h_r) adds a transport
  * part to G and one scalar unknown σ: the stage system becomes bordered
@@ -150,14 +151,29 @@ export class StepperWorkspace {
     if (!solveTridiagonal(1, n - 1, jLower, jDiag, jUpper, delta, work)) {
       return this.result(false, Infinity, it1 + it2);
     }
-    let err = 0;
-    for (let i = 1; i < n; i++) {
-      const a = Math.abs(delta[i]!);
-      if (a > err) err = a;
+    let err = this.maxAbs(delta, n);
+    if (err > tolerance) {
+      // About to reject: filter once more (Hosea & Shampine). Stiff components, e.g. the
+      // high-frequency remainder of a remap after a regrid, are damped by the L-stable
+      // BDF2 stage and must not force the step down to the stiff time scale.
+      for (let i = 1; i < n; i++) delta[i] = (cm[i - 1]! + cm[i]!) * delta[i]!;
+      if (!solveTridiagonal(1, n - 1, jLower, jDiag, jUpper, delta, work)) {
+        return this.result(false, Infinity, it1 + it2);
+      }
+      err = this.maxAbs(delta, n);
     }
     err /= tolerance;
     if (!(err < Infinity)) return this.result(false, Infinity, it1 + it2);
     return this.result(true, err, it1 + it2);
+  }
+
+  private maxAbs(v: Float64Array, n: number): number {
+    let m = 0;
+    for (let i = 1; i < n; i++) {
+      const a = Math.abs(v[i]!);
+      if (a > m) m = a;
+    }
+    return m;
   }
 
   private result(ok: boolean, error: number, iterations: number): boolean {
