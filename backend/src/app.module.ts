@@ -15,6 +15,9 @@ import { SchedulerModule } from './scheduler/scheduler.module';
 import { StudiesModule } from './studies/studies.module';
 import { SweepsModule } from './sweeps/sweeps.module';
 import { WorkersModule } from './workers/workers.module';
+import { AdminModule } from './admin/admin.module';
+import { AuditModule } from './audit/audit.module';
+import { QuotasModule } from './quotas/quotas.module';
 
 @Module({})
 export class AppModule {
@@ -26,6 +29,9 @@ export class AppModule {
         DatabaseModule,
         RedisModule,
         QueueModule,
+        AuditModule,
+        QuotasModule,
+        AdminModule,
         AuthModule,
         UsersModule,
         HealthModule,

@@ -12,3 +12,4 @@ export * from './jobs';
 export * from './sweeps';
 export * from './api/sweeps.schemas';
 export * from './api/studies.schemas';
+export * from './api/quotas.schemas';

@@ -3,6 +3,7 @@ import { deserializeCheckpoint, ErrorCode, flowProfile, runTime, safeParseRunSpe
 import type { AuthenticatedUser } from '../auth/authenticated-user';
 import { ApiException, badInput, notFound } from '../common/api-error';
 import { DB, type Db } from '../database/database.module';
+import { QuotasService } from '../quotas/quotas.service';
 import { RunEventsService } from '../queue/run-events.service';
 import { RunsRepository } from '../runs/runs.repository';
 import { RunsService } from '../runs/runs.service';
@@ -17,6 +18,7 @@ export class CheckpointsService {
     private readonly runsRepository: RunsRepository,
     private readonly access: StudyAccessService,
     private readonly events: RunEventsService,
+    private readonly quotas: QuotasService,
   ) {}
 
   /** The checkpoint's metadata and run, when the caller may see the run. */
@@ -71,6 +73,7 @@ export class CheckpointsService {
     if (!parsed.success) {
       throw badInput(`overrides: ${parsed.message}`, parsed.issues.map((issue) => ({ path: `overrides.${issue.path}`, message: issue.message })));
     }
+    await this.quotas.assertSpecsWithin(user.id, [parsed.spec]);
     const { id: forkId } = await this.runsRepository.insertOne({
       study_id: run.studyId,
       sweep_id: null,

@@ -27,8 +27,6 @@ export const configSchema = z.object({
   /** The built web app; served at / beside the API. */
   KILN_WEB_DIR: z.string().default(path.resolve(__dirname, '../../../frontend/dist')),
   /** A worker counts as alive while its last heartbeat is younger than this (default 30 s). */
-  /** Concurrent runs per person until quotas are set (default 4). */
-  KILN_DEFAULT_USER_SLOTS: z.coerce.number().int().min(1).max(10_000).default(4),
   /** How often the scheduler admits runs, in milliseconds (default 1000). */
   KILN_SCHEDULER_TICK_MS: z.coerce.number().int().min(50).max(60_000).default(1000),
   /** `0` runs the API without a scheduler (e.g. extra API replicas that should never admit). */

@@ -47,3 +47,18 @@ describe('fair admission', () => {
     expect(empty.waiting.get('ada-0')).toMatch(/no worker host is running/);
   });
 });
+
+describe('admission against CPU-hour budgets', () => {
+  it('admits nothing for an owner whose monthly CPU-hours are used up, and says why, while others proceed', () => {
+    const plan = planAdmission({
+      freeSlots: 4,
+      poolSlots: 4,
+      inFlight: new Map(),
+      slotCap: () => 4,
+      blockedReason: (owner) => (owner === 'ada' ? 'waiting for quota: monthly CPU-hours used up' : undefined),
+      candidates: [...runsOf('ada', 3), ...runsOf('ben', 2)],
+    });
+    expect(plan.admit).toEqual(['ben-0', 'ben-1']);
+    expect(plan.waiting.get('ada-0')).toBe('waiting for quota: monthly CPU-hours used up');
+  });
+});

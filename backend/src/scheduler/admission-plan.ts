@@ -13,6 +13,8 @@ export interface AdmissionInput {
   inFlight: Map<string, number>;
   /** Concurrent runs an owner may have. */
   slotCap: (ownerId: string) => number;
+  /** Why an owner may not start anything now (e.g. monthly CPU-hours used up); undefined when they may. */
+  blockedReason?: (ownerId: string) => string | undefined;
   candidates: AdmissionCandidate[];
 }
 
@@ -45,7 +47,7 @@ export function planAdmission(input: AdmissionInput): AdmissionPlan {
   while (free > 0) {
     let next: string | undefined;
     for (const [owner, queue] of queues) {
-      if (queue.length === 0 || used(owner) >= input.slotCap(owner)) continue;
+      if (queue.length === 0 || used(owner) >= input.slotCap(owner) || input.blockedReason?.(owner)) continue;
       if (next === undefined || used(owner) < used(next) || (used(owner) === used(next) && firstSeen.get(owner)! < firstSeen.get(next)!)) {
         next = owner;
       }
@@ -61,7 +63,9 @@ export function planAdmission(input: AdmissionInput): AdmissionPlan {
     const cap = input.slotCap(owner);
     for (const candidate of queue) {
       let reason: string;
-      if (used(owner) >= cap) reason = `waiting for quota: ${used(owner)} of ${cap} slots in use`;
+      const blocked = input.blockedReason?.(owner);
+      if (blocked) reason = blocked;
+      else if (used(owner) >= cap) reason = `waiting for quota: ${used(owner)} of ${cap} slots in use`;
       else if (input.poolSlots === 0) reason = 'waiting for a worker: no worker host is running; ask your lab admin';
       else reason = `waiting for a free worker slot: all ${input.poolSlots} slots of the pool are busy`;
       waiting.set(candidate.id, reason);

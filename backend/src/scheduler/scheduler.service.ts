@@ -7,6 +7,7 @@ import type { KilnConfig } from '../config/config.schema';
 import { DB, type Db } from '../database/database.module';
 import { RunEventsService } from '../queue/run-events.service';
 import { RunQueue } from '../queue/run-queue';
+import { QuotasService } from '../quotas/quotas.service';
 import { planAdmission } from './admission-plan';
 
 /** PostgreSQL advisory lock key held by the one active scheduler ('KILN'). */
@@ -36,6 +37,7 @@ export class SchedulerService implements OnApplicationBootstrap, OnApplicationSh
     @Inject(DB) private readonly db: Db,
     private readonly queue: RunQueue,
     private readonly events: RunEventsService,
+    private readonly quotas: QuotasService,
   ) {}
 
   onApplicationBootstrap(): void {
@@ -62,7 +64,10 @@ export class SchedulerService implements OnApplicationBootstrap, OnApplicationSh
     this.busy = true;
     try {
       if (!(await this.ensureLeadership())) return;
-      if (this.ticks++ % RECONCILE_EVERY_TICKS === 0) await this.reconcile();
+      if (this.ticks++ % RECONCILE_EVERY_TICKS === 0) {
+        await this.reconcile();
+        await this.quotas.resumeBudgetPausedRuns();
+      }
       await this.admit();
     } catch (error) {
       this.logger.warn(`scheduler round failed, will retry: ${error instanceof Error ? error.message : String(error)}`);
@@ -124,11 +129,22 @@ export class SchedulerService implements OnApplicationBootstrap, OnApplicationSh
       .execute();
     if (candidates.length === 0) return;
 
+    const owners = [...new Set(candidates.map((row) => row.owner_id))];
+    const usage = await this.quotas.monthUsage();
+    const quotas = new Map(await Promise.all(owners.map(async (owner) => [owner, await this.quotas.effective(owner)] as const)));
     const plan = planAdmission({
       freeSlots: Math.max(0, poolSlots - totalInFlight),
       poolSlots,
       inFlight,
-      slotCap: () => this.config.KILN_DEFAULT_USER_SLOTS,
+      slotCap: (owner) => quotas.get(owner)?.slots ?? 0,
+      blockedReason: (owner) => {
+        const quota = quotas.get(owner);
+        if (!quota) return undefined;
+        const usedHours = (usage.get(owner) ?? 0) / 3600;
+        return usedHours >= quota.cpuHoursPerMonth
+          ? `waiting for quota: monthly CPU-hours used up (${usedHours.toFixed(1)} of ${quota.cpuHoursPerMonth} h); they renew on the 1st, or ask your lab admin`
+          : undefined;
+      },
       candidates: candidates.map((row) => ({ id: row.id, ownerId: row.owner_id })),
     });
 

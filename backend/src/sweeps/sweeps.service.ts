@@ -15,11 +15,10 @@ import {
 import type { AuthenticatedUser } from '../auth/authenticated-user';
 import { badInput, notFound } from '../common/api-error';
 import { csvLine } from '../common/csv';
-import { KILN_CONFIG } from '../config/config.module';
-import type { KilnConfig } from '../config/config.schema';
 import { DB, type Db } from '../database/database.module';
 import { toRun } from '../runs/runs.mapper';
 import { RunsRepository } from '../runs/runs.repository';
+import { QuotasService } from '../quotas/quotas.service';
 import { StudyAccessService } from '../studies/study-access.service';
 
 /** Rows per INSERT when writing a sweep's runs (keeps each statement well under pg's parameter cap). */
@@ -29,9 +28,9 @@ const INSERT_BATCH = 500;
 export class SweepsService {
   constructor(
     @Inject(DB) private readonly db: Db,
-    @Inject(KILN_CONFIG) private readonly config: KilnConfig,
     private readonly access: StudyAccessService,
     private readonly runs: RunsRepository,
+    private readonly quotas: QuotasService,
   ) {}
 
   private expand(body: SweepPreviewRequest) {
@@ -44,14 +43,16 @@ export class SweepsService {
   async preview(user: AuthenticatedUser, body: SweepPreviewRequest): Promise<SweepPreviewResponse> {
     await this.access.assertCanWork(user, body.studyId);
     const runs = this.expand(body);
+    await this.quotas.assertSpecsWithin(user.id, runs.map((run) => run.spec));
     const cpuSeconds = runs.reduce((sum, run) => sum + estimateRunCpuSeconds(run.spec), 0);
+    const quota = await this.quotas.view(user.id);
     return {
       runCount: runs.length,
       estimatedCpuHours: cpuSeconds / 3600,
       quota: {
-        slots: this.config.KILN_DEFAULT_USER_SLOTS,
-        slotsInUse: await this.runs.inFlightCount(user.id),
-        cpuHoursRemaining: null,
+        slots: quota.slots,
+        slotsInUse: quota.slotsInUse,
+        cpuHoursRemaining: Math.max(0, quota.cpuHoursPerMonth - quota.cpuHoursUsed),
       },
       sample: runs.slice(0, 5).map((run) => ({ axisValues: run.axisValues })),
     };
@@ -61,6 +62,7 @@ export class SweepsService {
   async create(user: AuthenticatedUser, body: CreateSweepRequest): Promise<Sweep> {
     await this.access.assertCanWork(user, body.studyId);
     const runs = this.expand(body);
+    await this.quotas.assertSpecsWithin(user.id, runs.map((run) => run.spec));
     const sweep = await this.db.transaction().execute(async (trx) => {
       const row = await trx
         .insertInto('sweeps')

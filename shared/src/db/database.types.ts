@@ -115,6 +115,7 @@ export interface RunsTable {
   lease: Generated<number>;
   worker_id: string | null;
   cpu_seconds: Generated<number>;
+  pause_reason: 'request' | 'cpu-budget' | null;
   created_at: Generated<Date>;
   started_at: TimestampNullable;
   finished_at: TimestampNullable;
@@ -152,6 +153,23 @@ export interface RunMetricsTable {
   newton_iterations: number;
 }
 
+export interface QuotasTable {
+  user_id: string;
+  slots: number;
+  cpu_hours_per_month: number;
+  max_grid_points: number;
+  max_run_cpu_seconds: number;
+  updated_at: Generated<Date>;
+  updated_by: string | null;
+}
+
+export interface CpuUsageTable {
+  user_id: string;
+  /** First day of the month (UTC). */
+  month: ColumnType<Date, string, string>;
+  cpu_seconds: number;
+}
+
 export interface Database {
   users: UsersTable;
   api_tokens: ApiTokensTable;
@@ -164,4 +182,6 @@ export interface Database {
   runs: RunsTable;
   checkpoints: CheckpointsTable;
   run_metrics: RunMetricsTable;
+  quotas: QuotasTable;
+  cpu_usage: CpuUsageTable;
 }

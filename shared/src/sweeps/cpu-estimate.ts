@@ -6,13 +6,13 @@ import type { RunSpec } from '../spec';
  * and take many small steps, steady states may stop early.
  *
  * Model: cost ≈ points × steps × Newton iterations × seconds per point-iteration,
- * with steps ≈ min(tMax / maxStep + 200, 20 000) and 3 Newton iterations a step.
+ * with steps ≈ min(tMax / maxStep + 200, 10⁶) and 3 Newton iterations a step.
  * The per-point cost is the order measured by `npm run bench:flow` (docs/benchmarks.md).
  */
 export const CPU_ESTIMATE_MODEL = {
   secondsPerPointIteration: 1e-7,
   newtonIterationsPerStep: 3,
-  maxSteps: 20_000,
+  maxSteps: 1_000_000,
   extraSteps: 200,
 } as const;
 
