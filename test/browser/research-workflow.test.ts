@@ -1,3 +1,4 @@
+import { readFileSync } from 'node:fs';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { launchBrowser, saveScreenshot as saveFullPage } from '../support/browser';
@@ -91,18 +92,29 @@ describe('the research workflow in the browser', () => {
   }
 
   async function openBuilder(page: Page, screenshots = false) {
-    await page.getByRole('link', { name: 'Studies', exact: true }).click();
+    await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Studies' }).click();
     await page.getByRole('link', { name: 'Ellipsoid targets past the oscillation threshold' }).waitFor();
     if (screenshots) await saveScreenshot(page, 'studies');
     await page.getByRole('link', { name: 'Ellipsoid targets past the oscillation threshold' }).click();
     await page.getByText('No sweeps in this study yet.').or(page.locator('.sweep-list')).first().waitFor();
-    if (screenshots) await saveScreenshot(page, 'study-empty');
+    if (screenshots) await saveScreenshot(page, 'study-before-sweep');
     await page.getByRole('button', { name: 'New sweep' }).click();
     await page.getByRole('heading', { name: 'New sweep' }).waitFor();
   }
 
-  it('bad values are stopped in the browser with the same messages the API gives', async () => {
+  it('a researcher creates a study; bad values are stopped in the browser with the same messages the API gives', async () => {
     const page = await signedInPage(demo.postdoc);
+    await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Studies' }).click();
+    await page.getByRole('button', { name: 'New study' }).click();
+    await page.getByRole('button', { name: 'Create study' }).click();
+    await page.getByText('name is required').waitFor();
+    await page.getByLabel('Question').fill('Ball B³ into S³: where does blow-up start in α?');
+    await page.getByRole('button', { name: 'Create study' }).click();
+    await page.getByRole('heading', { name: 'Ball B³ into S³: where does blow-up start in α?' }).waitFor();
+    await page.getByText('No sweeps in this study yet.').waitFor();
+    await page.getByText('Owner ·').waitFor();
+    await saveScreenshot(page, 'study-new');
+
     await openBuilder(page);
 
     // A grid far too coarse: the shared schema's message, and no way to submit.
@@ -191,6 +203,15 @@ describe('the research workflow in the browser', () => {
     await page.getByRole('cell', { name: 'Blow-up' }).first().waitFor();
     await page.getByRole('cell', { name: 'Converged' }).first().waitFor();
     await saveScreenshot(page, 'sweep-page');
+
+    // The results as CSV: a header and one row per run.
+    const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'Results (CSV)' }).click()]);
+    expect(download.suggestedFilename()).toMatch(/results\.csv$/);
+    const csv = readFileSync((await download.path())!, 'utf8').trim().split(/\r?\n/);
+    expect(csv).toHaveLength(13);
+    const outcomeColumn = csv[0]!.split(',').indexOf('outcome');
+    expect(outcomeColumn).toBeGreaterThan(0);
+    expect(csv.slice(1).filter((row) => row.split(',')[outcomeColumn] === 'blowup')).toHaveLength(blowup);
 
     // A cell opens its run: α = 1.5π (top row) with axis ratio 1 (second column) blew up.
     const map = page.getByTestId('outcome-map').locator('.chart');

@@ -134,11 +134,11 @@ function OverviewRoute() {
             <RunsTab runs={blowups} emptyText="No run in your studies has ended in blow-up." />
             <EvidenceCaution blowup compact />
           </Card>
+          <ServiceHealthPanel />
         </div>
         <div className="page__side">
           <SlotUsePanel running={running.data?.total} queued={queued.data?.total} waiting={waiting.data?.total} slots={slots} />
           <WorkerPoolPanel />
-          <ServiceHealthPanel />
         </div>
       </div>
     </div>

@@ -38,7 +38,7 @@ export function CheckpointsTable({
     { title: 't', dataIndex: 't', render: (t: number) => formatNumber(t, 5), className: 'numeric-cell' },
     { title: 'Points', dataIndex: 'points', className: 'numeric-cell' },
     { title: 'Written', dataIndex: 'reason', render: (r: string) => reasonWord[r] ?? r },
-    { title: 'CPU so far', dataIndex: 'cpuSeconds', render: (s: number) => formatCpu(s), className: 'numeric-cell' },
+    { title: 'CPU so far', dataIndex: 'cpuSeconds', render: (s: number) => formatCpu(s), className: 'numeric-cell', responsive: ['xxl'] },
     { title: 'Size', dataIndex: 'sizeBytes', render: (b: number) => formatBytes(b), className: 'numeric-cell', responsive: ['xxl'] },
     { title: 'At', dataIndex: 'createdAt', render: (at: string) => <span title={formatDateTime(at)}>{formatTime(at)}</span>, className: 'numeric-cell' },
     {

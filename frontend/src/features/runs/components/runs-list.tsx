@@ -3,14 +3,31 @@ import { Table, type TableColumnsType } from 'antd';
 import { Link } from 'react-router-dom';
 import { OutcomeTag, RunStateTag } from '@/components/run-status';
 import { paths } from '@/config/paths';
-import { formatAge, formatCpu, formatNumber, shortId } from '@/lib/format';
+import { formatAge, formatNumber, shortId } from '@/lib/format';
+
+const SYMBOL: Record<string, string> = {
+  'domain.dim': 'm',
+  'domain.boundaryAngle': 'α',
+  'target.axisRatio': 'b',
+  'initial.slope': 'slope',
+  'initial.s': 's',
+  'initial.amplitude': 'A',
+  'initial.mode': 'k',
+  'grid.points': 'points',
+  'grid.maxPoints': 'cap',
+  'time.tMax': 't_max',
+  'time.maxStep': 'max step',
+  'time.tolerance': 'tol',
+  'stop.tension': 'τ stop',
+  'stop.gradientBound': 'grad bound',
+};
 
 /** What a run varies, in one line: its axis values, or "single run". */
 export function runLabel(run: Run): string {
   const entries = Object.entries(run.axisValues ?? {});
   if (entries.length === 0) return run.parentRunId ? 'fork' : 'single run';
   return entries
-    .map(([path, value]) => `${path.split('.').pop()} = ${path === 'domain.boundaryAngle' ? `${formatNumber(value / Math.PI, 4)}π` : formatNumber(value, 4)}`)
+    .map(([path, value]) => `${SYMBOL[path] ?? path} = ${path === 'domain.boundaryAngle' ? `${formatNumber(value / Math.PI, 4)}π` : formatNumber(value, 4)}`)
     .join(', ');
 }
 
@@ -29,25 +46,25 @@ export function RunsList({ runs, emptyText, showWait = false }: { runs: Run[]; e
         </div>
       ),
     },
-    { title: 'State', key: 'state', width: 130, render: (_, run) => <RunStateTag state={run.state} /> },
+    { title: 'State', key: 'state', width: 120, render: (_, run) => <RunStateTag state={run.state} /> },
     {
       title: showWait ? 'Why waiting' : 'Outcome',
       key: 'outcome',
+      width: showWait ? undefined : 150,
       render: (_, run) =>
         showWait ? <span className="table-sub">{run.waitReason ?? 'waiting for a worker'}</span> : <OutcomeTag outcome={run.outcome} />,
     },
     {
       title: 't',
       key: 't',
-      width: 90,
+      width: 80,
       render: (_, run) => formatNumber(run.progress?.t, 4),
       className: 'numeric-cell',
     },
-    { title: 'CPU', key: 'cpu', width: 90, render: (_, run) => formatCpu(run.cpuSeconds), className: 'numeric-cell' },
     {
       title: showWait ? 'Submitted' : 'When',
       key: 'when',
-      width: 110,
+      width: 96,
       render: (_, run) => formatAge(run.finishedAt ?? run.startedAt ?? run.createdAt),
       className: 'numeric-cell',
     },
