@@ -31,6 +31,28 @@ export const paths = {
     path: '/lab',
     getHref: () => '/lab',
   },
+  // The lab admin's pages (People is /lab itself).
+  labQuotas: {
+    path: '/lab/quotas',
+    getHref: () => '/lab/quotas',
+  },
+  labWorkers: {
+    path: '/lab/workers',
+    getHref: () => '/lab/workers',
+  },
+  labUsage: {
+    path: '/lab/usage',
+    getHref: () => '/lab/usage',
+  },
+  labAudit: {
+    path: '/lab/audit',
+    getHref: () => '/lab/audit',
+  },
+  /** Everyone's own quota and CPU-hours. */
+  ownQuota: {
+    path: '/quota',
+    getHref: () => '/quota',
+  },
   signIn: {
     path: '/sign-in',
     /** `redirectTo` is where to go after signing in (an in-app path). */

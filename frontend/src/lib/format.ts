@@ -81,5 +81,13 @@ export function formatAge(iso: string | null | undefined, now = Date.now()): str
   return `${Math.round(s / 86_400)} d ago`;
 }
 
+/** A number as a person would type it: 1e8 rather than 100000000, 1e-6 rather than 0.000001. */
+export function formatForInput(value: number | null | undefined): string {
+  if (value === null || value === undefined || Number.isNaN(value)) return '';
+  const abs = Math.abs(value);
+  if (abs !== 0 && (abs >= 1e5 || abs < 1e-3)) return value.toExponential().replace('e+', 'e').replace(/\.?0+e/, 'e');
+  return String(value);
+}
+
 /** The first block of a uuid, enough to tell runs apart on screen. */
 export const shortId = (id: string) => id.slice(0, 8);

@@ -3,7 +3,7 @@ import { Alert, Form, Input, Modal, Radio } from 'antd';
 import { useEffect, useId, useMemo, useState } from 'react';
 import { ApiRequestError } from '@/lib/api-client';
 import { describeError } from '@/lib/describe-error';
-import { formatNumber } from '@/lib/format';
+import { formatForInput, formatNumber } from '@/lib/format';
 import { useForkCheckpoint } from '../api/checkpoint-actions';
 
 interface ForkDraft {
@@ -21,13 +21,13 @@ const toNumber = (text: string) => (text.trim() === '' ? undefined : Number(text
 
 function draftOf(spec: RunSpec): ForkDraft {
   return {
-    points: String(spec.grid.points),
+    points: formatForInput(spec.grid.points),
     maxPoints: '',
-    tMax: String(spec.time.tMax),
-    maxStep: String(spec.time.maxStep),
-    tolerance: String(spec.time.tolerance),
-    tension: String(spec.stop.tension),
-    gradientBound: String(spec.stop.gradientBound),
+    tMax: formatForInput(spec.time.tMax),
+    maxStep: formatForInput(spec.time.maxStep),
+    tolerance: formatForInput(spec.time.tolerance),
+    tension: formatForInput(spec.stop.tension),
+    gradientBound: formatForInput(spec.stop.gradientBound),
     flow: spec.flow,
   };
 }

@@ -1,5 +1,6 @@
 import { Form, Input } from 'antd';
 import { useEffect, useId, useState, type ReactNode } from 'react';
+import { formatForInput } from '@/lib/format';
 import { parseValues } from './spec-draft';
 
 function parseOne(text: string): number | null {
@@ -36,10 +37,10 @@ export function NumberField({
   extra?: ReactNode;
 }) {
   const id = useId();
-  const [text, setText] = useState(value === null || Number.isNaN(value) ? '' : String(value));
+  const [text, setText] = useState(formatForInput(value));
   // Follow changes made from outside (e.g. a reset), without fighting the typing.
   useEffect(() => {
-    if (!same(parseOne(text), value)) setText(value === null || Number.isNaN(value) ? '' : String(value));
+    if (!same(parseOne(text), value)) setText(formatForInput(value));
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [value]);
   return (

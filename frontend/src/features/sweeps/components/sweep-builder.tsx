@@ -61,8 +61,9 @@ export function SweepBuilder({ studyId, onCreated }: { studyId: string; onCreate
   const preview = useSweepPreview(debouncedBody);
   const localRunCount = axesCheck.axes ? sweepRunCount(axesCheck.axes) : null;
 
+  // h₀ needs only the domain and the initial data: the rest of the spec may still be being typed.
   const profileSpec = useMemo(() => {
-    const parsed = safeParseRunSpec(base);
+    const parsed = safeParseRunSpec({ ...base, grid: { points: 100 }, time: { tMax: 1 }, stop: {} });
     return parsed.success ? parsed.spec : null;
   }, [base]);
 
