@@ -14,7 +14,7 @@ const CASES: Record<string, { title: string; spec: RunSpecInput }> = {
       initial: { kind: 'identity' },
       grid: { points: 200 },
       time: { tMax: 10, maxStep: 0.01 },
-      stop: { gradientBound: 1e6 },
+      stop: { gradientBound: 1e8 },
     },
   },
   'ellipsoid-steady': {

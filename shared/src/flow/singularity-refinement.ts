@@ -17,8 +17,8 @@ import { remapMonotone } from './monotone-remap';
  */
 /** Refinement starts once λ is below this fraction of the graded zone (min(R/4, π/4)). */
 export const REFINE_BELOW_ZONE_FRACTION = 0.1;
-export const CORE_FRACTION_TARGET = 0.05;
-export const CORE_FRACTION_MAX = 0.1;
+export const CORE_FRACTION_TARGET = 0.001;
+export const CORE_FRACTION_MAX = 0.002;
 /** A core larger than λ with no room to refine: the run cannot be trusted any more. */
 export const CORE_FRACTION_FLOOR = 1;
 
