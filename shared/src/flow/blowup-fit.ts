@@ -28,6 +28,14 @@ export interface BlowupEstimate {
     earlierT: number | null;
     /** ‖τ‖ at the end of the window over ‖τ‖ at its start (< 1: tension falling). */
     tensionRatio: number;
+    /** Energy lost so far, D(0) − D(t) (filled by `blowupEstimate(run)`). */
+    energyLost: number | null;
+    /**
+     * Energy of one bubble, for m = 2: the area of the target, 2π∫₀^π f ρ dh (a
+     * degree-one harmonic sphere covers N once). Null for m ≥ 3, where a shrinking
+     * profile carries no energy (D scales like λ^(m−2)).
+     */
+    bubbleEnergy: number | null;
     /** Remarks in words (look-alike, too few decades, …). */
     notes: string[];
   };
@@ -179,6 +187,8 @@ export function estimateBlowup(rows: HistoryRow[]): BlowupEstimate {
       exponentialRate: null,
       earlierT: null,
       tensionRatio: 1,
+      energyLost: null,
+      bubbleEnergy: null,
       notes,
     },
   };

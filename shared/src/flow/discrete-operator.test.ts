@@ -51,6 +51,23 @@ describe('discrete energy (numerics.md §1, §2)', () => {
     expect(Math.abs(sphereIdentity(400, 'none').energy - exact) / exact).toBeLessThan(1e-5);
   });
 
+  it('Möbius energy profile of the identity of S³: F(s) = 12π² s/(1+s)²', () => {
+    // Source: F(s) = 6π ∫ sin²(γ_s) dr = 12π² s/(1+s)² for the identity of S³ (derived, numerics.md §4.3).
+    for (const s of [0.5, 2, 0.2]) {
+      const run = createFlowRun(
+        parseRunSpec({
+          domain: { kind: 'sphere', dim: 3 },
+          target: { kind: 'sphere' },
+          initial: { kind: 'dilated', s },
+          grid: { points: 400 },
+          time: { tMax: 1 },
+        }),
+      );
+      const exact = (12 * Math.PI * Math.PI * s) / ((1 + s) * (1 + s));
+      expect(Math.abs(run.energy - exact) / exact).toBeLessThan(1e-4);
+    }
+  });
+
   it('m = 2: γ_s on S² (2·arctan(r/λ) on the plane) is stationary with energy 4π', () => {
     // Source: degree-one harmonic maps S² → S² have energy 4π = area of S² — classical;
     // D is conformally invariant for m = 2, so every dilation γ_s is harmonic (numerics.md §4.2, §4.3).

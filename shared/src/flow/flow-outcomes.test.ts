@@ -52,6 +52,8 @@ describe('outcomes on the ball (numerics.md §3, §4.4, §4.5)', () => {
       const outside = 2 * Math.PI * (1 - Math.cos(factor * Math.PI - Math.PI));
       expect(s.energyFinal).toBeGreaterThan(4 * Math.PI + outside - 1e-2);
       expect(s.energyFinal).toBeLessThan(s.energyInitial);
+      // The evidence names the bubble energy: the area of S², 4π (numerics.md §4.2).
+      expect(blowupEstimate(r).evidence.bubbleEnergy!).toBeCloseTo(4 * Math.PI, 10);
       console.info(`B2 α=${factor}π: p = ${s.blowup!.exponent}, T = ${s.blowup!.T}, E = ${s.energyFinal} vs 4π + ${outside}`);
     });
   }

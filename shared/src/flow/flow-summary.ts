@@ -2,6 +2,7 @@ import { estimateBlowup, type BlowupEstimate, type BlowupKind } from './blowup-f
 import { historyRows } from './flow-history';
 import { runOutcome, runTime, type FlowOutcome, type FlowRun, type OutcomeReason } from './flow-run';
 import type { SymmetryUsed } from './flow-model';
+import type { TargetGeometry } from './target-geometry';
 
 /** The result object of numerics.md §5 (what `npm run -s flow` prints). */
 export interface FlowSummary {
@@ -32,7 +33,23 @@ export interface FlowSummary {
 
 /** Full blow-up evidence from the run's history (any time; the summary attaches it to `blowup` outcomes). */
 export function blowupEstimate(run: FlowRun): BlowupEstimate {
-  return estimateBlowup(historyRows(run.history, run.s.historyHead, run.s.historyCount));
+  const e = estimateBlowup(historyRows(run.history, run.s.historyHead, run.s.historyCount));
+  e.evidence.energyLost = run.s.energyInitial - run.energy;
+  e.evidence.bubbleEnergy = run.model.m === 2 ? targetArea(run.model.target) : null;
+  return e;
+}
+
+/** Area 2π∫₀^π f(h) ρ(h) dh of a two-dimensional target (Simpson's rule, 2000 panels). */
+export function targetArea(target: TargetGeometry): number {
+  const n = 2000;
+  const step = Math.PI / n;
+  let sum = 0;
+  for (let k = 0; k <= n; k++) {
+    const h = k * step;
+    const w = k === 0 || k === n ? 1 : k % 2 === 1 ? 4 : 2;
+    sum += w * Math.abs(target.f(h)) * Math.sqrt(target.rhoSquared(h));
+  }
+  return (2 * Math.PI * sum * step) / 3;
 }
 
 /**

@@ -12,6 +12,30 @@
 //   flow-run          create / advance / diagnostics / outcomes
 //   flow-summary      the §5 result object
 //   checkpoint-format versioned binary state, bit-identical resume
+//
+// How the worker drives a run (all functions are pure computation, no clocks, no I/O):
+//
+//   const spec = parseRunSpec(json);              // ../spec: validates, fills defaults
+//   const run = createFlowRun(spec);              // or deserializeCheckpoint(bytes)
+//   for (;;) {
+//     const res = advanceFlowRun(run, {
+//       shouldStop: () => sliceOver(),            // checked before every step
+//       cpuSecondsUsed: () => cpuSoFar(),         // caller's clock; engine never reads one
+//       cpuBudgetSeconds: budget,                 // → outcome 'time-limit' (reason 'cpu-budget'), resumable
+//     });
+//     store(drainSamples(run));                   // §3 samples: every 25 steps and every 1.25× change of λ
+//     save(serializeCheckpoint(run));             // resume is bit-identical, however the run is sliced
+//     if (res.done) break;
+//   }
+//   const summary = summarizeFlowRun(run, cpuSeconds);   // the §5 object; blowup estimate for 'blowup'
+//   const evidence = blowupEstimate(run);                 // full fit, uncertainties and notes
+//   const { r, h } = flowProfile(run);                    // profile for plots (whole domain)
+//   runDiagnostics(run);                                  // the current §3 sample
+//   initialProfile(spec, 200);                            // cheap h₀ preview for the browser
+//
+// The Möbius-normalized flow (a later issue) slots in as a drift term σ·sin r·h_r in
+// the operator and one scalar unknown σ per implicit stage (bordered tridiagonal
+// system: two Thomas sweeps and a scalar Schur complement); the run state gains σ.
 export * from './target-geometry';
 export * from './flow-model';
 export * from './graded-grid';
