@@ -8,6 +8,7 @@ import { paths } from '@/config/paths';
 import { meQueryOptions, useMe } from '@/features/auth/api/get-me';
 import { healthQueryOptions } from '@/features/health/api/get-health';
 import { ServiceHealthPanel } from '@/features/health/components/service-health-panel';
+import { useMyQuota } from '@/features/overview/api/get-my-quota';
 import { SlotUsePanel } from '@/features/overview/components/slot-use-panel';
 import { useRuns, type RunSearch } from '@/features/runs/api/get-runs';
 import { RunsList } from '@/features/runs/components/runs-list';
@@ -46,8 +47,8 @@ function RunsTab({ runs, emptyText, showWait }: { runs: UseQueryResult<Page<Run>
 }
 
 /**
- * The slot cap comes with the sweep preview (which writes nothing) until the
- * quotas issue adds a route of its own; collaborators, who cannot preview, see counts only.
+ * Where `GET /api/quota` is missing (an older server), the slot cap comes with the
+ * sweep preview, which writes nothing; collaborators, who cannot preview, see counts only.
  */
 function useMySlots(enabled: boolean, studyId: string | undefined): number | null {
   const preview = useSweepPreview(
@@ -73,7 +74,8 @@ function OverviewRoute() {
   const blowups = useRuns({ scope: 'all', outcome: 'blowup', sort: 'created', order: 'desc', pageSize: 6 }, live);
   const studies = useStudies();
   const researcher = me.data?.role === Role.Admin || me.data?.role === Role.Researcher;
-  const slots = useMySlots(researcher, studies.data?.[0]?.id);
+  const quota = useMyQuota();
+  const slots = useMySlots(researcher && quota.data === null, studies.data?.[0]?.id);
 
   const nothingYet = running.data?.total === 0 && waiting.data?.total === 0 && finished.data?.total === 0 && queued.data?.total === 0;
 
@@ -137,7 +139,7 @@ function OverviewRoute() {
           <ServiceHealthPanel />
         </div>
         <div className="page__side">
-          <SlotUsePanel running={running.data?.total} queued={queued.data?.total} waiting={waiting.data?.total} slots={slots} />
+          <SlotUsePanel running={running.data?.total} queued={queued.data?.total} waiting={waiting.data?.total} slots={slots} quota={quota.data} />
           <WorkerPoolPanel />
         </div>
       </div>

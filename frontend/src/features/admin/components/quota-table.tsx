@@ -297,7 +297,7 @@ export function QuotaTable() {
       <p className="panel__note">
         A slot is one CPU core's worth of worker capacity. Runs beyond a person's slots wait in the queue; when their month's
         CPU-hours are used up, running runs are checkpointed and paused until the next month or a higher allowance. Grid and
-        CPU-time limits apply to runs submitted after the change. Enter edits a row and saves it; every change is written to
+        CPU-time limits apply to runs submitted after the change. Save (or Enter in a field) stores one row; every change is written to
         the audit log.
       </p>
     </Card>

@@ -18,6 +18,7 @@ export function useResumeFromCheckpoint() {
       queryClient.setQueryData(runKeys.detail(run.id), run);
       void queryClient.invalidateQueries({ queryKey: runKeys.all });
       void queryClient.invalidateQueries({ queryKey: ['sweeps'] });
+      void queryClient.invalidateQueries({ queryKey: ['quota'] });
     },
   });
 }
@@ -31,6 +32,7 @@ export function useForkCheckpoint() {
       queryClient.setQueryData(runKeys.detail(run.id), run);
       void queryClient.invalidateQueries({ queryKey: runKeys.lists() });
       void queryClient.invalidateQueries({ queryKey: ['studies'] });
+      void queryClient.invalidateQueries({ queryKey: ['quota'] });
     },
   });
 }

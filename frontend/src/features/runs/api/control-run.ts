@@ -16,6 +16,7 @@ export function useControlRun(runId: string) {
       queryClient.setQueryData(runKeys.detail(runId), run);
       void queryClient.invalidateQueries({ queryKey: runKeys.all });
       void queryClient.invalidateQueries({ queryKey: ['sweeps'] });
+      void queryClient.invalidateQueries({ queryKey: ['quota'] });
     },
   });
 }

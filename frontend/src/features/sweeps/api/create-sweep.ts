@@ -14,6 +14,7 @@ export function useCreateSweep() {
       queryClient.setQueryData(sweepKeys.detail(sweep.id), sweep);
       void queryClient.invalidateQueries({ queryKey: sweepKeys.forStudy(sweep.studyId) });
       void queryClient.invalidateQueries({ queryKey: ['runs'] });
+      void queryClient.invalidateQueries({ queryKey: ['quota'] });
     },
   });
 }
