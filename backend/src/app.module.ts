@@ -16,6 +16,9 @@ import { StudiesModule } from './studies/studies.module';
 import { SweepsModule } from './sweeps/sweeps.module';
 import { WorkersModule } from './workers/workers.module';
 import { AdminModule } from './admin/admin.module';
+import { InvitationsModule } from './invitations/invitations.module';
+import { MailModule } from './mail/mail.module';
+import { ApiTokensModule } from './tokens/api-tokens.module';
 import { AuditModule } from './audit/audit.module';
 import { QuotasModule } from './quotas/quotas.module';
 
@@ -30,6 +33,9 @@ export class AppModule {
         RedisModule,
         QueueModule,
         AuditModule,
+        MailModule,
+        ApiTokensModule,
+        InvitationsModule,
         QuotasModule,
         AdminModule,
         AuthModule,

@@ -13,3 +13,4 @@ export * from './sweeps';
 export * from './api/sweeps.schemas';
 export * from './api/studies.schemas';
 export * from './api/quotas.schemas';
+export * from './api/invitations.schemas';

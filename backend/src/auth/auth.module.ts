@@ -35,6 +35,6 @@ import { RolesGuard } from './roles.guard';
     { provide: APP_GUARD, useClass: JwtAuthGuard },
     { provide: APP_GUARD, useClass: RolesGuard },
   ],
-  exports: [PasswordService, JwtModule],
+  exports: [PasswordService, JwtModule, AuthService],
 })
 export class AuthModule {}

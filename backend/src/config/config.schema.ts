@@ -31,10 +31,18 @@ export const configSchema = z.object({
   KILN_SCHEDULER_TICK_MS: z.coerce.number().int().min(50).max(60_000).default(1000),
   /** `0` runs the API without a scheduler (e.g. extra API replicas that should never admit). */
   KILN_SCHEDULER: z.enum(['0', '1']).default('1'),
+  /** Where links in e-mails point (default http://127.0.0.1:PORT). */
+  KILN_PUBLIC_URL: z.string().regex(/^https?:\/\//, 'KILN_PUBLIC_URL must start with http:// or https://').optional(),
+  /** Sender of Kiln's e-mails. */
+  KILN_MAIL_FROM: z.string().min(3).default('Kiln <kiln@localhost>'),
+  /** `1` in local mode: the SMTP sink stores mail in PostgreSQL and admins may read it (the outbox page). */
+  KILN_MAIL_SINK: z.enum(['0', '1']).default('0'),
+  /** Days an invitation link stays valid (default 7). */
+  KILN_INVITATION_DAYS: z.coerce.number().min(0.0001).max(90).default(7),
   KILN_WORKER_STALE_SECONDS: z.coerce.number().int().min(5).max(3600).default(30),
 });
 
-export type KilnConfig = z.infer<typeof configSchema>;
+export type KilnConfig = z.infer<typeof configSchema> & { KILN_PUBLIC_URL: string };
 
 /** Reads and checks the configuration; throws one readable message naming every bad variable. */
 export function loadConfig(env: NodeJS.ProcessEnv = process.env): KilnConfig {
@@ -43,5 +51,5 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): KilnConfig {
     const lines = parsed.error.issues.map((issue) => `  - ${issue.path.join('.')}: ${issue.message}`);
     throw new Error(`Kiln cannot start: the configuration is not valid (${describeZodError(parsed.error)}).\n${lines.join('\n')}`);
   }
-  return parsed.data;
+  return { ...parsed.data, KILN_PUBLIC_URL: parsed.data.KILN_PUBLIC_URL ?? `http://127.0.0.1:${parsed.data.PORT}` };
 }

@@ -7,6 +7,7 @@ import { DB, type Db } from '../database/database.module';
 import { RunEventsService } from '../queue/run-events.service';
 import { RunQueue } from '../queue/run-queue';
 import { StudyAccessService } from '../studies/study-access.service';
+import { API_TOKEN_PREFIX, ApiTokensService } from '../tokens/api-tokens.service';
 import { UsersRepository } from '../users/users.repository';
 import { toUser } from '../users/users.mapper';
 import { EventTicketService, EVENT_TICKET_SECONDS } from './event-ticket.service';
@@ -29,6 +30,7 @@ export class RunsService {
     private readonly queue: RunQueue,
     private readonly tickets: EventTicketService,
     private readonly users: UsersRepository,
+    private readonly apiTokens: ApiTokensService,
   ) {}
 
   /** The run, when the caller may see it (404 otherwise, so ids reveal nothing). */
@@ -136,6 +138,7 @@ export class RunsService {
   async authenticateStream(id: string, ticket: string | undefined, authorization: string | undefined): Promise<AuthenticatedUser> {
     let userId: string | undefined;
     if (ticket) userId = await this.tickets.verify(ticket, id);
+    else if (authorization?.startsWith(`Bearer ${API_TOKEN_PREFIX}`)) userId = (await this.apiTokens.authenticate(authorization.slice(7)))?.id;
     else if (authorization?.startsWith('Bearer ')) userId = await this.tickets.verifyAccessToken(authorization.slice(7));
     const row = userId ? await this.users.findById(userId).catch(() => undefined) : undefined;
     if (!row || row.disabled) throw unauthenticated('This live stream needs a valid ticket (POST /api/runs/:id/events/ticket) or bearer token.');

@@ -15,6 +15,10 @@ export interface UsersTable {
   disabled: Generated<boolean>;
   created_at: Generated<Date>;
   updated_at: Generated<Date>;
+  notify_sweep_finished: Generated<boolean>;
+  notify_run_failed: Generated<boolean>;
+  notify_candidate: Generated<boolean>;
+  notify_quota: Generated<boolean>;
 }
 
 export interface ApiTokensTable {
@@ -170,6 +174,41 @@ export interface CpuUsageTable {
   cpu_seconds: number;
 }
 
+export interface MailOutboxTable {
+  id: Generated<string>;
+  dedupe_key: string;
+  to_address: string;
+  subject: string;
+  body_text: string;
+  created_at: Generated<Date>;
+  attempts: Generated<number>;
+  last_error: string | null;
+  sent_at: TimestampNullable;
+}
+
+export interface InvitationsTable {
+  id: Generated<string>;
+  study_id: string;
+  email: string;
+  study_role: 'member' | 'viewer';
+  invited_by: string;
+  token_hash: string;
+  expires_at: Timestamp;
+  accepted_at: TimestampNullable;
+  accepted_by: string | null;
+  revoked_at: TimestampNullable;
+  created_at: Generated<Date>;
+}
+
+export interface PasswordResetsTable {
+  id: Generated<string>;
+  user_id: string;
+  token_hash: string;
+  expires_at: Timestamp;
+  used_at: TimestampNullable;
+  created_at: Generated<Date>;
+}
+
 export interface Database {
   users: UsersTable;
   api_tokens: ApiTokensTable;
@@ -184,4 +223,7 @@ export interface Database {
   run_metrics: RunMetricsTable;
   quotas: QuotasTable;
   cpu_usage: CpuUsageTable;
+  mail_outbox: MailOutboxTable;
+  invitations: InvitationsTable;
+  password_resets: PasswordResetsTable;
 }
