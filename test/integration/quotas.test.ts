@@ -6,7 +6,7 @@ import { startTestRedis, type TestRedis } from '../support/redis-server';
 import { QUICK_SPHERE_SPEC } from '../support/specs';
 import { startTestApi, type TestApi } from '../support/test-api';
 import { createTestDatabase, type TestDatabase } from '../support/test-database';
-import { startWorker, stopProcesses, type WorkerProcess } from '../support/worker-harness';
+import { longBallSpec, referenceRun, startWorker, stopProcesses, withoutCpu, type WorkerProcess } from '../support/worker-harness';
 
 /** A ball run of roughly half a second of CPU: long enough to overlap, short enough for a test. */
 const halfSecondRun = {
@@ -186,4 +186,49 @@ describe('quotas and fair sharing', () => {
     expect(Math.max(...gaps)).toBeLessThanOrEqual(1);
     await waitFor('both to finish', async () => (await unfinished(ben.id)) + (await unfinished(cleo.id)) === 0, 120_000);
   }, 240_000);
+
+  it('a CPU-hour budget that runs out pauses the owner\'s run with a checkpoint and tells them; raising it resumes the run, bit for bit', async () => {
+    const dana = await createPerson(database.db, Role.Researcher, { name: 'Dana' });
+    tokens[dana.email] = (await api.request('POST', '/api/auth/login', { body: { email: dana.email, password: dana.password } })).body.accessToken;
+    studies[dana.email] = (await api.request('POST', '/api/studies', { token: as(dana), body: { name: "Dana's study" } })).body.id;
+    // 2 CPU-seconds a month: less than the run needs.
+    const tiny = { slots: 2, cpuHoursPerMonth: 2 / 3600, maxGridPoints: 20_000, maxRunCpuSeconds: 3600 };
+    expect((await api.request('PUT', `/api/admin/quotas/${dana.id}`, { token: as(admin), body: tiny })).status).toBe(200);
+    const spec = longBallSpec(20);
+    const created = await api.request('POST', '/api/sweeps', {
+      token: as(dana),
+      body: { studyId: studies[dana.email], name: 'budget', base: spec, axes: [{ path: 'domain.boundaryAngle', values: [0.9 * Math.PI] }] },
+    });
+    expect(created.status).toBe(201);
+    const runId = (await database.db.selectFrom('runs').select('id').where('sweep_id', '=', created.body.id).executeTakeFirstOrThrow()).id;
+
+    const paused = await waitFor('the run to pause for budget', async () => {
+      const row = await database.db.selectFrom('runs').selectAll().where('id', '=', runId).executeTakeFirstOrThrow();
+      return row.state === 'paused' ? row : undefined;
+    }, 60_000);
+    expect(paused.pause_reason).toBe('cpu-budget');
+    expect(paused.cpu_seconds).toBeGreaterThanOrEqual(2);
+    expect(paused.cpu_seconds).toBeLessThan(4);
+    const checkpoint = await database.db.selectFrom('checkpoints').select('reason').where('run_id', '=', runId).orderBy('seq', 'desc').executeTakeFirstOrThrow();
+    expect(checkpoint.reason).toBe('cpu-budget');
+    const mail = await database.db.selectFrom('mail_outbox').selectAll().where('to_address', '=', dana.email).execute();
+    expect(mail.map((m) => m.subject)).toEqual(['Your Kiln CPU-hours for this month are used up']);
+    // A new submission waits and says why.
+    await api.request('POST', '/api/sweeps', {
+      token: as(dana),
+      body: { studyId: studies[dana.email], name: 'waits', base: halfSecondRun, axes: [] },
+    });
+    await waitFor('the new run to wait for budget', async () => {
+      const row = await database.db.selectFrom('runs').select('wait_reason').where('owner_id', '=', dana.id).where('state', '=', 'waiting').executeTakeFirst();
+      return row?.wait_reason?.includes('monthly CPU-hours used up');
+    });
+
+    expect((await api.request('PUT', `/api/admin/quotas/${dana.id}`, { token: as(admin), body: { ...tiny, cpuHoursPerMonth: 10 } })).status).toBe(200);
+    const finished = await waitFor('the run to finish after the raise', async () => {
+      const row = await database.db.selectFrom('runs').selectAll().where('id', '=', runId).executeTakeFirstOrThrow();
+      return row.state === 'finished' ? row : undefined;
+    }, 90_000);
+    expect(withoutCpu(finished.summary)).toEqual(withoutCpu(referenceRun(spec).summary));
+    await waitFor('Dana\'s runs to finish', async () => (await unfinished(dana.id)) === 0, 60_000);
+  }, 180_000);
 });

@@ -5,6 +5,7 @@ import type { Database } from '@kiln/shared/db';
 export const REQUEUE_FIELDS = {
   state: 'queued' as const,
   wait_reason: null,
+  pause_reason: null,
   control_request: null,
   dispatched_at: null,
   worker_id: null,
@@ -23,7 +24,7 @@ export const REQUEUE_FIELDS = {
 export async function stopUnclaimedRun(db: Kysely<Database>, runId: string, state: 'paused' | 'cancelled'): Promise<{ stopped: boolean; attempt: number }> {
   const row = await db
     .updateTable('runs')
-    .set({ state, dispatched_at: null, wait_reason: null, control_request: null, updated_at: new Date() })
+    .set({ state, pause_reason: state === 'paused' ? 'request' : null, dispatched_at: null, wait_reason: null, control_request: null, updated_at: new Date() })
     .where('id', '=', runId)
     .where('state', 'in', ['queued', 'waiting'])
     .returning(['attempt'])

@@ -15,6 +15,7 @@ export function toRun(row: Selectable<RunsTable> & { parent_run_id?: string | nu
     spec: row.spec as RunSpec,
     state: row.state,
     waitReason: row.wait_reason,
+    pauseReason: row.pause_reason,
     outcome: row.outcome,
     outcomeReason: row.outcome_reason,
     summary: row.summary,

@@ -48,6 +48,8 @@ export interface Run {
   state: RunState;
   /** Why a queued run is not running yet, in words a person understands. */
   waitReason: string | null;
+  /** Why a paused run is paused: someone asked, or the owner's monthly CPU-hours ran out (it resumes by itself). */
+  pauseReason: 'request' | 'cpu-budget' | null;
   outcome: FlowOutcome | null;
   outcomeReason: string | null;
   /** The `flow` command's summary (numerics.md §5) once the run has an outcome. */

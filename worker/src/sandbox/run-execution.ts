@@ -22,6 +22,7 @@ import {
   sha256Hex,
   toMetricSample,
   type ClaimedRun,
+  type CpuBudget,
   type ControlRequest,
   type RunEnding,
   type RunStore,
@@ -114,6 +115,11 @@ export class RunExecution {
   private async drive(claim: ClaimedRun): Promise<RunState> {
     const run = await this.startingState(claim);
     if (claim.controlRequest) return this.endOnRequest(run, claim.controlRequest);
+    // The run may spend up to its per-run limit, and no more than its owner's month has
+    // left; re-read at every flush, because the owner's other runs spend the month too.
+    let budget = await this.store.budget();
+    const cpuBudgetSeconds = () => Math.min(budget.maxRunCpuSeconds, this.cpu.total() + budget.monthRemainingSeconds);
+    let limit = cpuBudgetSeconds();
     const { checkpointSeconds, sliceMs, flushMs } = this.settings;
     let nextFlush = performance.now() + flushMs;
     let nextCheckpoint = performance.now() + checkpointSeconds * 1000;
@@ -127,9 +133,17 @@ export class RunExecution {
       const sliceEnd = performance.now() + sliceMs;
       // The engine never reads clocks: the slice's wall-clock check lives here.
       const result = this.cpu.measure(() =>
-        advanceFlowRun(run, { shouldStop: () => performance.now() >= sliceEnd || this.signal?.aborted === true }),
+        advanceFlowRun(run, {
+          shouldStop: () => performance.now() >= sliceEnd || this.signal?.aborted === true,
+          cpuSecondsUsed: () => this.cpu.total(),
+          cpuBudgetSeconds: limit,
+        }),
       );
       this.buffer.push(...drainSamples(run));
+      if (result.done && result.reason === 'cpu-budget' && limit < budget.maxRunCpuSeconds) {
+        // The owner's month ran out, not the run's own limit: pause until the budget allows more.
+        return this.pauseForBudget(run, budget);
+      }
       if (result.done) return this.finish(run);
       const now = performance.now();
       if (now >= nextCheckpoint) {
@@ -141,6 +155,8 @@ export class RunExecution {
         const request = await this.flush(run);
         nextFlush = performance.now() + flushMs;
         if (request) return this.endOnRequest(run, request);
+        budget = await this.store.budget();
+        limit = cpuBudgetSeconds();
       }
       // Lets the thread receive the main process's cancel message between slices.
       await yieldToEventLoop();
@@ -235,9 +251,17 @@ export class RunExecution {
     return 'finished';
   }
 
+  private async pauseForBudget(run: FlowRun, budget: CpuBudget): Promise<RunState> {
+    await this.checkpoint(run, 'cpu-budget', () => ({ state: 'paused', pauseReason: 'cpu-budget' }));
+    await this.store.notifyBudgetExhausted(budget);
+    this.publishState('paused');
+    this.log(`run ${this.runId}: paused at step ${run.s.step}: the owner's monthly CPU-hours are used up`);
+    return 'paused';
+  }
+
   private async endOnRequest(run: FlowRun, request: ControlRequest): Promise<RunState> {
+    await this.checkpoint(run, request, () => (request === 'pause' ? { state: 'paused', pauseReason: 'request' } : { state: 'cancelled' }));
     const state = request === 'pause' ? 'paused' : 'cancelled';
-    await this.checkpoint(run, request, () => ({ state }));
     this.publishState(state);
     this.log(`run ${this.runId}: ${state} on request at step ${run.s.step}`);
     return state;

@@ -1,3 +1,4 @@
+import { DEFAULT_QUOTAS, type Role } from '@kiln/shared';
 import { createHash } from 'node:crypto';
 import { sql, type Kysely, type Transaction } from 'kysely';
 import type { CheckpointReasonValue, Database, RunOutcomeValue } from '@kiln/shared/db';
@@ -46,8 +47,20 @@ export interface RunProgress {
 /** The row change that ends a run, in the same transaction as its last checkpoint. */
 export type RunEnding =
   | { state: 'finished'; outcome: RunOutcomeValue; outcomeReason: string | null; summary: unknown }
-  | { state: 'paused' | 'cancelled' }
+  | { state: 'paused'; pauseReason: 'request' | 'cpu-budget' }
+  | { state: 'cancelled' }
   | { state: 'queued' };
+
+/** What a run may still spend, from its owner's quota (docs/run-lifecycle.md, "CPU budgets"). */
+export interface CpuBudget {
+  /** The per-run limit (quota maxRunCpuSeconds). */
+  maxRunCpuSeconds: number;
+  /** CPU seconds left of the owner's month, now (other runs of the owner spend it too). */
+  monthRemainingSeconds: number;
+  ownerId: string;
+  notifyQuota: boolean;
+  ownerEmail: string;
+}
 
 export function sha256Hex(bytes: Uint8Array): string {
   return createHash('sha256').update(bytes).digest('hex');
@@ -261,8 +274,10 @@ export class RunStore {
         };
         break;
       case 'paused':
+        values = { state: 'paused' as const, pause_reason: ending.pauseReason, dispatched_at: null, control_request: null };
+        break;
       case 'cancelled':
-        values = { state: ending.state, dispatched_at: null, control_request: null };
+        values = { state: 'cancelled' as const, dispatched_at: null, control_request: null };
         break;
       case 'queued':
         // Graceful shutdown: hand the run back for the scheduler to admit again.
@@ -276,6 +291,54 @@ export class RunStore {
       .where('lease', '=', this.lease)
       .executeTakeFirst();
     if (!result.numUpdatedRows) throw new LeaseLostError(this.runId, this.lease);
+  }
+
+  /** The owner's quota as it applies to this run now (own quota, or the role's default). */
+  async budget(): Promise<CpuBudget> {
+    return this.retrying('read the CPU budget', async () => {
+      const row = await this.db
+        .selectFrom('runs')
+        .innerJoin('users', 'users.id', 'runs.owner_id')
+        .leftJoin('quotas', 'quotas.user_id', 'runs.owner_id')
+        .leftJoin('cpu_usage', (join) =>
+          join.onRef('cpu_usage.user_id', '=', 'runs.owner_id').on('cpu_usage.month', '=', sql<Date>`date_trunc('month', now() AT TIME ZONE 'UTC')::date`),
+        )
+        .select(['runs.owner_id', 'users.role', 'users.email', 'users.notify_quota', 'quotas.cpu_hours_per_month', 'quotas.max_run_cpu_seconds', 'cpu_usage.cpu_seconds as used'])
+        .where('runs.id', '=', this.runId)
+        .executeTakeFirstOrThrow();
+      const defaults = DEFAULT_QUOTAS[row.role as Role];
+      const monthSeconds = (row.cpu_hours_per_month ?? defaults.cpuHoursPerMonth) * 3600;
+      return {
+        maxRunCpuSeconds: row.max_run_cpu_seconds ?? defaults.maxRunCpuSeconds,
+        monthRemainingSeconds: Math.max(0, monthSeconds - (row.used ?? 0)),
+        ownerId: row.owner_id,
+        notifyQuota: row.notify_quota,
+        ownerEmail: row.email,
+      };
+    });
+  }
+
+  /** Tells the owner, once a month, that their CPU-hours ran out and their runs wait (in the pausing transaction's wake). */
+  async notifyBudgetExhausted(budget: CpuBudget): Promise<void> {
+    if (!budget.notifyQuota) return;
+    const month = new Date().toISOString().slice(0, 7);
+    await this.retrying('queue the quota e-mail', () =>
+      this.db
+        .insertInto('mail_outbox')
+        .values({
+          dedupe_key: `quota-exhausted:${budget.ownerId}:${month}`,
+          to_address: budget.ownerEmail,
+          subject: 'Your Kiln CPU-hours for this month are used up',
+          body_text: [
+            'Your monthly CPU-hours on Kiln are used up, so your running runs were checkpointed and paused.',
+            'They continue by themselves when your lab admin raises your quota, or on the 1st of next month.',
+            '',
+            'You can switch these e-mails off in your settings.',
+          ].join('\n'),
+        })
+        .onConflict((oc) => oc.column('dedupe_key').doNothing())
+        .execute(),
+    );
   }
 
   /** Marks the run failed with a readable error (fenced). */
