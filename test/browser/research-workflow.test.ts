@@ -99,7 +99,10 @@ describe('the research workflow in the browser', () => {
     await page.getByText('No sweeps in this study yet.').or(page.locator('.sweep-list')).first().waitFor();
     if (screenshots) await saveScreenshot(page, 'study-before-sweep');
     await page.getByRole('button', { name: 'New sweep' }).click();
-    await page.getByRole('heading', { name: 'New sweep' }).waitFor();
+    await page.getByRole('heading', { name: 'New sweep' }).waitFor().catch(async (e) => {
+      await saveFullPage(page, 'debug-new-sweep');
+      throw e;
+    });
   }
 
   it('a researcher creates a study; bad values are stopped in the browser with the same messages the API gives', async () => {

@@ -6,7 +6,8 @@ import { authKeys, useMe } from '@/features/auth/api/get-me';
 import { healthQueryOptions } from '@/features/health/api/get-health';
 import { ServiceHealthPanel } from '@/features/health/components/service-health-panel';
 import { usersQueryOptions } from '@/features/lab/api/get-users';
-import { PeopleTable } from '@/features/lab/components/people-table';
+import { LabSections } from '@/features/admin/components/lab-sections';
+import { PeopleAdminPanel } from '@/features/admin/components/people-admin-panel';
 import { isAdmin } from '@/lib/roles';
 import { getToken } from '@/lib/session';
 import type { User } from '@kiln/shared';
@@ -44,9 +45,10 @@ function LabRoute() {
     <div className="page">
       <title>Lab · Kiln</title>
       <PageHeader title="Lab" subtitle="Who has an account, and the services Kiln runs on." />
+      <LabSections />
       <div className="page__stack">
+        <PeopleAdminPanel me={me.data} />
         <ServiceHealthPanel />
-        <PeopleTable />
       </div>
     </div>
   );

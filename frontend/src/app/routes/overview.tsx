@@ -1,6 +1,6 @@
 import { Role, type Run } from '@kiln/shared';
 import { Button, Card, Skeleton, Tabs } from 'antd';
-import { Link } from 'react-router-dom';
+import { useNavigate } from 'react-router-dom';
 import { EvidenceCaution } from '@/components/evidence-caution';
 import { PageHeader } from '@/components/page-header';
 import { QueryError } from '@/components/query-error';
@@ -66,6 +66,7 @@ function useMySlots(enabled: boolean, studyId: string | undefined): number | nul
 
 function OverviewRoute() {
   const me = useMe();
+  const navigate = useNavigate();
   const live = { live: true };
   const running = useRuns(mine({ state: 'running' }), live);
   const queued = useRuns(mine({ state: 'queued', pageSize: 1 }), live);
@@ -91,9 +92,9 @@ function OverviewRoute() {
           title={`Welcome back, ${me.data.name}`}
           subtitle="Your runs, possible singularities across your studies, and the machines they run on."
           extra={
-            <Link to={paths.studies.getHref()}>
-              <Button type={nothingYet ? 'primary' : 'default'}>{researcher ? 'Studies and sweeps' : 'Your studies'}</Button>
-            </Link>
+            <Button type={nothingYet ? 'primary' : 'default'} onClick={() => navigate(paths.studies.getHref())}>
+              {researcher ? 'Studies and sweeps' : 'Your studies'}
+            </Button>
           }
         />
       )}

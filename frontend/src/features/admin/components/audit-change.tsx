@@ -19,6 +19,8 @@ function formatValue(key: string, value: unknown): string {
   return JSON.stringify(value);
 }
 
+const lowerFirst = (text: string) => text.charAt(0).toLowerCase() + text.slice(1);
+
 const isRecord = (value: unknown): value is Record<string, unknown> =>
   typeof value === 'object' && value !== null && !Array.isArray(value);
 
@@ -46,13 +48,15 @@ export function AuditChange({ before, after }: { before: unknown; after: unknown
         {changed.map((key) => (
           <li key={key} data-field={key}>
             <span className="audit-change__field">{fieldLabel(key)}</span>{' '}
-            {isRecord(before) ? <span className="audit-change__before">{formatValue(key, from[key])}</span> : null}
-            {isRecord(before) ? <span className="audit-change__arrow" aria-label="changed to"> → </span> : 'set to '}
-            <span className="audit-change__after">{formatValue(key, to[key])}</span>
+            <span className="audit-change__values">
+              {isRecord(before) ? <span className="audit-change__before">{formatValue(key, from[key])}</span> : null}
+              {isRecord(before) ? <span className="audit-change__arrow" aria-label="changed to"> → </span> : 'set to '}
+              <span className="audit-change__after">{formatValue(key, to[key])}</span>
+            </span>
           </li>
         ))}
       </ul>
-      {same.length ? <div className="audit-change__same">Unchanged: {same.map((key) => fieldLabel(key).toLowerCase()).join(', ')}</div> : null}
+      {same.length ? <div className="audit-change__same">Unchanged: {same.map((key) => lowerFirst(fieldLabel(key))).join(', ')}</div> : null}
     </div>
   );
 }

@@ -107,7 +107,7 @@ export function AuditLogPanel() {
     <Card
       title="Audit log"
       className="panel"
-      extra={audit.data ? <span className="panel__meta">{plural(audit.data.total, 'entry', 'entries')}{filtered ? ' match' : ''}</span> : null}
+      extra={audit.data ? <span className="panel__meta">{plural(audit.data.total, 'entry', 'entries')}{filtered ? (audit.data.total === 1 ? ' matches' : ' match') : ''}</span> : null}
     >
       <form className="audit-filters" aria-label="Filter the audit log" onSubmit={(event) => event.preventDefault()}>
         <label className="audit-filters__field">
@@ -118,7 +118,7 @@ export function AuditLogPanel() {
             value={params.get('action') ?? undefined}
             options={actionOptions}
             onChange={(value?: string) => setFilter('action', value)}
-            style={{ width: 230 }}
+            style={{ width: 190 }}
             aria-label="Action"
           />
         </label>
@@ -131,7 +131,7 @@ export function AuditLogPanel() {
             value={params.get('person') ?? undefined}
             options={personOptions}
             onChange={(value?: string) => setFilter('person', value)}
-            style={{ width: 190 }}
+            style={{ width: 160 }}
             aria-label="Concerning"
           />
         </label>
@@ -144,17 +144,17 @@ export function AuditLogPanel() {
             value={params.get('by') ?? undefined}
             options={personOptions}
             onChange={(value?: string) => setFilter('by', value)}
-            style={{ width: 190 }}
+            style={{ width: 160 }}
             aria-label="Changed by"
           />
         </label>
         <label className="audit-filters__field">
           <span className="inline-label">From</span>
-          <Input type="date" value={params.get('from') ?? ''} onChange={(e) => setFilter('from', e.target.value)} style={{ width: 150 }} aria-label="From day" />
+          <Input type="date" value={params.get('from') ?? ''} onChange={(e) => setFilter('from', e.target.value)} style={{ width: 140 }} aria-label="From day" />
         </label>
         <label className="audit-filters__field">
           <span className="inline-label">to</span>
-          <Input type="date" value={params.get('to') ?? ''} onChange={(e) => setFilter('to', e.target.value)} style={{ width: 150 }} aria-label="To day" />
+          <Input type="date" value={params.get('to') ?? ''} onChange={(e) => setFilter('to', e.target.value)} style={{ width: 140 }} aria-label="To day" />
         </label>
         {filtered ? (
           <Button type="link" onClick={() => setParams(new URLSearchParams(), { replace: true })}>

@@ -1,4 +1,5 @@
 import { NavLink } from 'react-router-dom';
+import './lab-admin.css';
 import { IconClock, IconLab, IconOverview, IconWorker } from '@/components/icons';
 import { paths } from '@/config/paths';
 

@@ -183,10 +183,10 @@ export function QuotaTable() {
     {
       title: 'Slots',
       key: 'slots',
-      width: 120,
+      width: 104,
       render: (_, row) => (
         <div className="quota-cell">
-          {input(row, 'slots', 'Slots', 'slots', 96, Boolean(errors[row.userId]?.slots))}
+          {input(row, 'slots', 'Slots', 'slots', 88, Boolean(errors[row.userId]?.slots))}
           <div className="table-sub" data-testid="slots-in-use">
             {row.slotsInUse} of {row.slots} in use
           </div>
@@ -195,12 +195,12 @@ export function QuotaTable() {
       ),
     },
     {
-      title: 'CPU-hours per month · used this month',
+      title: 'CPU-hours a month · used',
       key: 'cpuHoursPerMonth',
-      width: 250,
+      width: 214,
       render: (_, row) => (
         <div className="quota-cell">
-          {input(row, 'cpuHoursPerMonth', 'CPU-hours per month', 'CPU-h', 130, Boolean(errors[row.userId]?.cpuHoursPerMonth))}
+          {input(row, 'cpuHoursPerMonth', 'CPU-hours per month', 'CPU-h', 120, Boolean(errors[row.userId]?.cpuHoursPerMonth))}
           <UsageMeter used={row.cpuHoursUsed} allowance={row.cpuHoursPerMonth} compact />
           <FieldError message={errors[row.userId]?.cpuHoursPerMonth} />
         </div>
@@ -209,10 +209,10 @@ export function QuotaTable() {
     {
       title: 'Largest grid',
       key: 'maxGridPoints',
-      width: 140,
+      width: 124,
       render: (_, row) => (
         <div className="quota-cell">
-          {input(row, 'maxGridPoints', 'Largest grid', 'points', 124, Boolean(errors[row.userId]?.maxGridPoints))}
+          {input(row, 'maxGridPoints', 'Largest grid', 'points', 110, Boolean(errors[row.userId]?.maxGridPoints))}
           <FieldError message={errors[row.userId]?.maxGridPoints} />
         </div>
       ),
@@ -220,14 +220,14 @@ export function QuotaTable() {
     {
       title: 'Longest run (CPU time)',
       key: 'maxRunCpuSeconds',
-      width: 170,
+      width: 160,
       render: (_, row) => {
         const invalid = Boolean(errors[row.userId]?.maxRunCpuSeconds);
         return (
           <div className="quota-cell">
             <div className="quota-time">
-              {input(row, 'runHours', 'Longest run hours', 'h', 76, invalid)}
-              {input(row, 'runMinutes', 'Longest run minutes', 'min', 76, invalid)}
+              {input(row, 'runHours', 'Longest run hours', 'h', 70, invalid)}
+              {input(row, 'runMinutes', 'Longest run minutes', 'min', 72, invalid)}
             </div>
             <FieldError message={errors[row.userId]?.maxRunCpuSeconds} />
           </div>
@@ -237,13 +237,13 @@ export function QuotaTable() {
     {
       title: 'Quota',
       key: 'source',
-      width: 120,
+      width: 118,
       render: (_, row) => <DefaultOrCustom row={row} />,
     },
     {
       title: <span className="visually-hidden">Save</span>,
       key: 'save',
-      width: 92,
+      width: 76,
       align: 'right',
       render: (_, row) => {
         const changed = !sameDraft(draftFor(row), draftOf(row));

@@ -42,8 +42,8 @@ function UsageChart({ people, months }: { people: PersonUsage[]; months: string[
   const option = useMemo(
     () => ({
       color: personColors,
-      grid: { left: 56, right: 16, top: 36, bottom: 28 },
-      legend: { top: 0, left: 0, type: 'scroll', itemWidth: 12, itemHeight: 10 },
+      grid: { left: 56, right: 16, top: 40, bottom: 28 },
+      legend: { top: 0, right: 0, type: 'scroll', itemWidth: 12, itemHeight: 10 },
       tooltip: {
         trigger: 'axis',
         axisPointer: { type: 'shadow' },
@@ -109,7 +109,6 @@ export function UsagePanel() {
       align: 'right',
       className: 'numeric-cell strong-text',
       render: (_, person) => hours(person.total),
-      sorter: (a, b) => a.total - b.total,
     },
   ];
 
@@ -161,7 +160,7 @@ export function UsagePanel() {
             scroll={{ x: 'max-content' }}
             summary={() => (
               <Table.Summary.Row className="usage-table__total">
-                <Table.Summary.Cell index={0}>Whole lab</Table.Summary.Cell>
+                <Table.Summary.Cell index={0} className="usage-table__total-name">Whole lab</Table.Summary.Cell>
                 {[...monthTotals].reverse().map((total, i) => (
                   <Table.Summary.Cell key={tableMonths[i]} index={i + 1} align="right" className="numeric-cell">
                     {hours(total)}

@@ -1,5 +1,5 @@
 import { Button, Card, Skeleton } from 'antd';
-import { Link } from 'react-router-dom';
+import { Link, useNavigate } from 'react-router-dom';
 import { IconPlus } from '@/components/icons';
 import { QueryError } from '@/components/query-error';
 import { StateCountsBar } from '@/components/state-counts-bar';
@@ -10,12 +10,11 @@ import { useStudySweeps } from '../api/get-sweep';
 /** A study's sweeps, newest first, each with its progress. */
 export function StudySweepsList({ studyId, canCreate }: { studyId: string; canCreate: boolean }) {
   const sweeps = useStudySweeps(studyId);
+  const navigate = useNavigate();
   const newButton = canCreate ? (
-    <Link to={paths.newSweep.getHref(studyId)}>
-      <Button type="primary" icon={<IconPlus />}>
-        New sweep
-      </Button>
-    </Link>
+    <Button type="primary" icon={<IconPlus />} onClick={() => navigate(paths.newSweep.getHref(studyId))}>
+      New sweep
+    </Button>
   ) : null;
   return (
     <Card title="Sweeps" className="panel" extra={newButton}>
