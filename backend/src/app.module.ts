@@ -18,6 +18,7 @@ import { WorkersModule } from './workers/workers.module';
 import { AdminModule } from './admin/admin.module';
 import { InvitationsModule } from './invitations/invitations.module';
 import { MailModule } from './mail/mail.module';
+import { NotificationsModule } from './notifications/notifications.module';
 import { ApiTokensModule } from './tokens/api-tokens.module';
 import { AuditModule } from './audit/audit.module';
 import { QuotasModule } from './quotas/quotas.module';
@@ -34,6 +35,7 @@ export class AppModule {
         QueueModule,
         AuditModule,
         MailModule,
+        NotificationsModule,
         ApiTokensModule,
         InvitationsModule,
         QuotasModule,

@@ -96,6 +96,13 @@ describe('a sweep on the worker pool, end to end', () => {
     const outcomes = new Set(runs.map((r) => r.outcome));
     expect(outcomes.has('converged') && outcomes.has('blowup')).toBe(true);
 
+    // The owner hears about it once (the reconcile round sends notices).
+    const notice = await waitFor('the sweep-finished e-mail', () =>
+      database.db.selectFrom('mail_outbox').selectAll().where('dedupe_key', '=', `sweep-finished:${created.body.id}`).executeTakeFirst(),
+    );
+    expect(notice.to_address).toBe(researcher.email);
+    expect(notice.body_text).toMatch(/converged: \d+/);
+
     // ...and the flow command itself, as a person would call it, for a few of them.
     const dir = mkdtempSync(path.join(os.tmpdir(), 'kiln-flow-'));
     for (const r of [runs[0], runs[21], runs[39]]) {
@@ -107,6 +114,24 @@ describe('a sweep on the worker pool, end to end', () => {
       expect(printed.energyFinal).toBe(r.summary.energyFinal);
     }
   }, 240_000);
+
+  it('notification settings: people switch e-mails off, and a finished sweep then sends none', async () => {
+    const bad = await api.request('PUT', '/api/me/notifications', { token, body: { sweepFinished: 'no' } });
+    expect(bad.status).toBe(400);
+    const off = await api.request('PUT', '/api/me/notifications', { token, body: { sweepFinished: false } });
+    expect(off.body).toEqual({ sweepFinished: false, runFailed: true, candidate: true, quotaNearlyUsed: true });
+    const created = await api.request('POST', '/api/sweeps', {
+      token,
+      body: { studyId, name: 'quiet', base: { domain: { kind: 'ball', dim: 2, boundaryAngle: 1 }, target: { kind: 'sphere' }, initial: { kind: 'identity' }, grid: { points: 40 }, time: { tMax: 10, maxStep: 0.1 } }, axes: [] },
+    });
+    await waitUntilAllFinished(created.body.id, 60_000);
+    await waitFor('the sweep to be marked notified', async () =>
+      (await database.db.selectFrom('sweeps').select('notified_at').where('id', '=', created.body.id).executeTakeFirstOrThrow()).notified_at,
+    );
+    const mails = await database.db.selectFrom('mail_outbox').select('id').where('dedupe_key', '=', `sweep-finished:${created.body.id}`).execute();
+    expect(mails).toHaveLength(0);
+    await api.request('PUT', '/api/me/notifications', { token, body: { sweepFinished: true } });
+  }, 120_000);
 
   it('Redis wiped mid-sweep: after reconciliation every run finishes exactly once, with the uninterrupted result', async () => {
     const created = await api.request('POST', '/api/sweeps', {

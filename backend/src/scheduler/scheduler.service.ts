@@ -7,6 +7,7 @@ import type { KilnConfig } from '../config/config.schema';
 import { DB, type Db } from '../database/database.module';
 import { RunEventsService } from '../queue/run-events.service';
 import { RunQueue } from '../queue/run-queue';
+import { NotificationsService } from '../notifications/notifications.service';
 import { QuotasService } from '../quotas/quotas.service';
 import { planAdmission } from './admission-plan';
 
@@ -38,6 +39,7 @@ export class SchedulerService implements OnApplicationBootstrap, OnApplicationSh
     private readonly queue: RunQueue,
     private readonly events: RunEventsService,
     private readonly quotas: QuotasService,
+    private readonly notifications: NotificationsService,
   ) {}
 
   onApplicationBootstrap(): void {
@@ -67,6 +69,7 @@ export class SchedulerService implements OnApplicationBootstrap, OnApplicationSh
       if (this.ticks++ % RECONCILE_EVERY_TICKS === 0) {
         await this.reconcile();
         await this.quotas.resumeBudgetPausedRuns();
+        await this.notifications.sendDue();
       }
       await this.admit();
     } catch (error) {

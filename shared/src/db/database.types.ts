@@ -93,6 +93,7 @@ export interface SweepsTable {
   axes: Json<unknown>;
   run_count: number;
   created_at: Generated<Date>;
+  notified_at: TimestampNullable;
 }
 
 export interface RunsTable {
