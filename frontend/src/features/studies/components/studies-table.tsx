@@ -26,7 +26,6 @@ const columns: TableColumnsType<Study> = [
     width: 130,
     render: (_, study) => (study.myRole ? roleWord[study.myRole] : 'Lab admin (not a member)'),
   },
-  { title: 'Members', width: 100, render: (_, study) => study.members.length, className: 'numeric-cell' },
   {
     title: 'Created',
     dataIndex: 'createdAt',
