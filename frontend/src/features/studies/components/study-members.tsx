@@ -16,7 +16,7 @@ export function StudyMembers({ study }: { study: Study }) {
           </li>
         ))}
       </ul>
-      <p className="panel__note">Invitations by e-mail arrive with the next release; a lab admin can add people meanwhile.</p>
+      <p className="panel__note">People join a study by an e-mail invitation from its owner or a lab admin.</p>
     </Card>
   );
 }
