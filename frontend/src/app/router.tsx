@@ -31,7 +31,6 @@ const router = createBrowserRouter([
               { path: paths.labWorkers.path, lazy: () => import('./routes/lab-workers') },
               { path: paths.labUsage.path, lazy: () => import('./routes/lab-usage') },
               { path: paths.labAudit.path, lazy: () => import('./routes/lab-audit') },
-              { path: paths.ownQuota.path, lazy: () => import('./routes/lab-own-quota') },
               { path: '*', lazy: () => import('./routes/not-found') },
             ],
           },

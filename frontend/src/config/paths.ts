@@ -48,11 +48,6 @@ export const paths = {
     path: '/lab/audit',
     getHref: () => '/lab/audit',
   },
-  /** Everyone's own quota and CPU-hours. */
-  ownQuota: {
-    path: '/quota',
-    getHref: () => '/quota',
-  },
   signIn: {
     path: '/sign-in',
     /** `redirectTo` is where to go after signing in (an in-app path). */

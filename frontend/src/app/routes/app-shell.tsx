@@ -2,7 +2,7 @@ import type { User } from '@kiln/shared';
 import { Button, Layout, Menu, type MenuProps } from 'antd';
 import { Link, Navigate, Outlet, useLocation, useNavigation } from 'react-router-dom';
 import { QueryError } from '@/components/query-error';
-import { IconHourglass, IconLab, IconOverview, IconSignOut, IconStudies } from '@/components/icons';
+import { IconLab, IconOverview, IconSignOut, IconStudies } from '@/components/icons';
 import { FullPageSpinner } from '@/components/full-page-spinner';
 import { KilnMark, KilnWordmark } from '@/components/kiln-mark';
 import { RoleTag } from '@/components/role-tag';
@@ -16,7 +16,6 @@ function navItems(user: User): MenuProps['items'] {
   const items: MenuProps['items'] = [
     { key: paths.overview.path, icon: <IconOverview />, label: <Link to={paths.overview.getHref()}>Overview</Link> },
     { key: paths.studies.path, icon: <IconStudies />, label: <Link to={paths.studies.getHref()}>Studies</Link> },
-    { key: paths.ownQuota.path, icon: <IconHourglass />, label: <Link to={paths.ownQuota.getHref()}>Your quota</Link> },
   ];
   if (isAdmin(user.role)) {
     items.push({ key: paths.lab.path, icon: <IconLab />, label: <Link to={paths.lab.getHref()}>Lab</Link> });
@@ -28,7 +27,6 @@ function selectedKey(pathname: string): string {
   if (pathname === paths.lab.path || pathname.startsWith(`${paths.lab.path}/`)) return paths.lab.path;
   // Studies, sweeps and runs all live under "Studies".
   if (/^\/(studies|sweeps|runs)(\/|$)/.test(pathname)) return paths.studies.path;
-  if (pathname === paths.ownQuota.path) return paths.ownQuota.path;
   return pathname === paths.overview.path ? paths.overview.path : '';
 }
 

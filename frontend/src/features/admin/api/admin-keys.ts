@@ -15,8 +15,7 @@ export const adminKeys = {
   workers: () => ['workers', 'list'] as const,
 };
 
-/** The signed-in person's own quota and usage (every role). */
+/** The signed-in person's own quota, shown on the Overview: refreshed when an admin changes their own. */
 export const ownQuotaKeys = {
   quota: () => ['quota', 'mine'] as const,
-  usage: (months: number) => ['usage', 'mine', months] as const,
 };

@@ -37,7 +37,7 @@ export function LabAdminPage({
         {title}
         <AccessDenied
           title="Only lab admins can see this page"
-          explanation={`${deniedExplanation} These pages are for lab admins. Your own slots and CPU-hours are on the Your quota page; if you need a change, or think your role is wrong, ask a lab admin.`}
+          explanation={`${deniedExplanation} These pages are for lab admins. Your own slots and this month's CPU-hours are on the Overview; if you need a change, or think your role is wrong, ask a lab admin.`}
         />
       </>
     );
