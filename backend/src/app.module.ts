@@ -18,6 +18,7 @@ import { WorkersModule } from './workers/workers.module';
 import { AdminModule } from './admin/admin.module';
 import { InvitationsModule } from './invitations/invitations.module';
 import { MailModule } from './mail/mail.module';
+import { UploadsModule } from './uploads/uploads.module';
 import { NotificationsModule } from './notifications/notifications.module';
 import { ApiTokensModule } from './tokens/api-tokens.module';
 import { AuditModule } from './audit/audit.module';
@@ -49,6 +50,7 @@ export class AppModule {
         CheckpointsModule,
         SchedulerModule,
         WorkersModule,
+        UploadsModule,
       ],
       providers: [{ provide: APP_FILTER, useClass: ApiExceptionFilter }],
     };

@@ -14,3 +14,4 @@ export * from './api/sweeps.schemas';
 export * from './api/studies.schemas';
 export * from './api/quotas.schemas';
 export * from './api/invitations.schemas';
+export * from './uploads';

@@ -1,9 +1,10 @@
 import { Body, Controller, Get, HttpCode, Param, Post, Res, StreamableFile } from '@nestjs/common';
 import type { Response } from 'express';
 import { ApiBearerAuth, ApiBody, ApiOperation, ApiTags } from '@nestjs/swagger';
-import { forkRequestSchema, idParamSchema, type CheckpointProfile, type ForkRequest, type Run } from '@kiln/shared';
+import { forkRequestSchema, idParamSchema, toNpy, type CheckpointProfile, type ForkRequest, type Run } from '@kiln/shared';
 import { CurrentUser } from '../auth/auth.decorators';
 import type { AuthenticatedUser } from '../auth/authenticated-user';
+import { csvLine } from '../common/csv';
 import { openApiSchema } from '../common/openapi';
 import { ZodValidationPipe } from '../common/zod-validation.pipe';
 import { CheckpointsService } from './checkpoints.service';
@@ -32,6 +33,27 @@ export class CheckpointsController {
   @ApiOperation({ summary: 'The profile h(r) stored in the checkpoint, for plots' })
   profile(@CurrentUser() user: AuthenticatedUser, @Param('id', id) checkpointId: string): Promise<CheckpointProfile> {
     return this.checkpoints.profile(user, checkpointId);
+  }
+
+  @Get(':id/profile.csv')
+  @ApiOperation({ summary: 'The profile h(r) of the checkpoint as CSV (columns r,h)' })
+  async profileCsv(@CurrentUser() user: AuthenticatedUser, @Param('id', id) checkpointId: string, @Res({ passthrough: true }) response: Response): Promise<string> {
+    const { r, h } = await this.checkpoints.profile(user, checkpointId);
+    response.setHeader('Content-Type', 'text/csv; charset=utf-8');
+    response.setHeader('Content-Disposition', `attachment; filename="kiln-checkpoint-${checkpointId}-profile.csv"`);
+    return csvLine(['r', 'h']) + r.map((value, i) => csvLine([value, h[i]])).join('');
+  }
+
+  @Get(':id/profile.npy')
+  @ApiOperation({ summary: 'The profile as a NumPy .npy array of shape (N, 2): columns r, h' })
+  async profileNpy(@CurrentUser() user: AuthenticatedUser, @Param('id', id) checkpointId: string): Promise<StreamableFile> {
+    const { r, h } = await this.checkpoints.profile(user, checkpointId);
+    const bytes = toNpy([r, h]);
+    return new StreamableFile(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength), {
+      type: 'application/octet-stream',
+      disposition: `attachment; filename="kiln-checkpoint-${checkpointId}-profile.npy"`,
+      length: bytes.byteLength,
+    });
   }
 
   @Post(':id/resume')

@@ -1,4 +1,6 @@
-import { Controller, Get, Headers, HttpCode, Param, Post, Query, Sse } from '@nestjs/common';
+import { Controller, Get, Headers, HttpCode, Param, Post, Query, Res, Sse } from '@nestjs/common';
+import type { Response } from 'express';
+import { csvLine } from '../common/csv';
 import { ApiBearerAuth, ApiOperation, ApiTags } from '@nestjs/swagger';
 import type { Observable } from 'rxjs';
 import { idParamSchema, metricsQuerySchema, runSearchQuerySchema, type Page, type RunSearchQuery, type CheckpointInfo, type MetricSample, type MetricsQuery, type Run } from '@kiln/shared';
@@ -35,6 +37,16 @@ export class RunsController {
     @Query(new ZodValidationPipe(metricsQuerySchema)) query: MetricsQuery,
   ): Promise<MetricSample[]> {
     return this.runs.metrics(user, runId, query);
+  }
+
+  @Get(':id/metrics.csv')
+  @ApiOperation({ summary: "The run's sampled diagnostics as CSV" })
+  async metricsCsv(@CurrentUser() user: AuthenticatedUser, @Param('id', id) runId: string, @Res({ passthrough: true }) response: Response): Promise<string> {
+    const samples = await this.runs.metrics(user, runId, { from: -1, limit: 1_000_000 });
+    response.setHeader('Content-Type', 'text/csv; charset=utf-8');
+    response.setHeader('Content-Disposition', `attachment; filename="kiln-run-${runId}-metrics.csv"`);
+    const columns = ['step', 't', 'dt', 'energy', 'tension', 'gradMax', 'gradMaxAt', 'lambda', 'center', 'sigma', 'points', 'newtonIterations'] as const;
+    return csvLine([...columns]) + samples.map((sample) => csvLine(columns.map((c) => sample[c]))).join('');
   }
 
   @Get(':id/checkpoints')

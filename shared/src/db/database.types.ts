@@ -210,6 +210,18 @@ export interface PasswordResetsTable {
   created_at: Generated<Date>;
 }
 
+export interface UploadsTable {
+  id: Generated<string>;
+  owner_id: string;
+  kind: 'initial-profile' | 'target-profile' | 'checkpoint';
+  filename: string;
+  size_bytes: number;
+  content: JsonNullable<unknown>;
+  bytes: Buffer | null;
+  sha256: string;
+  created_at: Generated<Date>;
+}
+
 export interface Database {
   users: UsersTable;
   api_tokens: ApiTokensTable;
@@ -227,4 +239,5 @@ export interface Database {
   mail_outbox: MailOutboxTable;
   invitations: InvitationsTable;
   password_resets: PasswordResetsTable;
+  uploads: UploadsTable;
 }

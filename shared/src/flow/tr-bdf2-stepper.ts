@@ -28,8 +28,16 @@ const C_LTE = (-3 * TR_GAMMA * TR_GAMMA + 4 * TR_GAMMA - 2) / (12 * (2 - TR_GAMM
 const E_N = 1 / TR_GAMMA;
 const E_G = -1 / (TR_GAMMA * (1 - TR_GAMMA));
 const E_1 = 1 / (1 - TR_GAMMA);
-/** Newton gives up after this many iterations in one stage. */
-const NEWTON_MAX_ITERATIONS = 10;
+/** Newton gives up after this many iterations in one stage… */
+const NEWTON_MAX_ITERATIONS = 8;
+/** …or when an update is not at least this much smaller than the one before (no contraction). */
+const NEWTON_MIN_CONTRACTION = 0.5;
+/**
+ * A step may move no node by more than this (radians). A larger move means Newton
+ * found another root of the implicit equations (the stiff core at a pole has
+ * several), not the continuation of the flow; the step is treated as a failure.
+ */
+export const STEP_CHANGE_MAX = 0.5;
 
 
 /** Arrays of one stepper, preallocated per grid (reallocated only on regrid). */
@@ -105,7 +113,7 @@ export class StepperWorkspace {
       }
       if (!(size < Infinity)) return -1;
       if (size <= tol) return it;
-      if (it >= 2 && size > previous) return -1;
+      if (it >= 2 && size > NEWTON_MIN_CONTRACTION * previous) return -1;
       previous = size;
     }
     return -1;
@@ -140,6 +148,12 @@ export class StepperWorkspace {
     }
     const it2 = this.newton(rhs2, y1, theta, newtonTol);
     if (it2 < 0) return this.result(false, Infinity, it1 + NEWTON_MAX_ITERATIONS);
+    let move = 0;
+    for (let i = 1; i < n; i++) {
+      const d = Math.abs(y1[i]! - y[i]!);
+      if (d > move) move = d;
+    }
+    if (!(move <= STEP_CHANGE_MAX)) return this.result(false, Infinity, it1 + it2);
     const scale = 2 * C_LTE * dt;
     for (let i = 1; i < n; i++) {
       const f = (y1[i]! - rhs2[i]!) / theta;

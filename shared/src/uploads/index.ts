@@ -1,0 +1,2 @@
+export * from './profile-csv';
+export * from './npy';
