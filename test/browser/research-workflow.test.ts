@@ -282,7 +282,14 @@ describe('the research workflow in the browser', () => {
     // The collaborator forks the paused run from its last checkpoint with a finer grid.
     const collaborator = await signedInPage(demo.collaborator);
     await collaborator.goto(`${api.baseUrl}/runs/${runId}`);
-    await collaborator.getByRole('button', { name: /Fork from checkpoint/ }).first().click();
+    await collaborator
+      .getByRole('button', { name: /Fork from checkpoint/ })
+      .first()
+      .click()
+      .catch(async (e) => {
+        await saveFullPage(collaborator, 'debug-collaborator-run');
+        throw e;
+      });
     const dialog = collaborator.getByRole('dialog');
     await dialog.getByLabel('Grid points').fill('5');
     await dialog.getByText('grid.points must be an integer from 20 to 20000').waitFor();

@@ -1,7 +1,7 @@
 import type { Run, SweepAxis } from '@kiln/shared';
 import { Card, Select, Skeleton } from 'antd';
 import { useMemo, useState } from 'react';
-import { useNavigate } from 'react-router-dom';
+import { Link, useNavigate } from 'react-router-dom';
 import { Chart } from '@/components/chart';
 import { EvidenceCaution } from '@/components/evidence-caution';
 import { IconCheck, IconFlare, IconIdle, IconWarning } from '@/components/icons';
@@ -194,6 +194,20 @@ export function OutcomeMap({ sweepId, axes, live, version }: { sweepId: string; 
               </li>
             ))}
           </ul>
+          <details className="map-cells">
+            <summary>The cells as a list (for keyboards and screen readers)</summary>
+            <ul>
+              {model.data.map((cell) => (
+                <li key={cell.runId}>
+                  <Link to={paths.run.getHref(cell.runId)}>
+                    {axisLabel(xPath!)} = {formatAxisValue(xPath!, model.xValues[cell.value[0]])}
+                    {yPath ? `, ${axisLabel(yPath)} = ${formatAxisValue(yPath, model.yValues[cell.value[1]])}` : ''}
+                  </Link>
+                  : {cell.text.replace('\n', ', ')}
+                </li>
+              ))}
+            </ul>
+          </details>
           <EvidenceCaution blowup compact />
         </>
       ) : null}
