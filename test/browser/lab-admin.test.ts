@@ -6,6 +6,7 @@ import { launchBrowser, saveScreenshot as saveFullPage } from '../support/browse
 import { seedDemoLabForTests, type DemoCredentials } from '../support/demo-lab';
 import { startTestApi, type TestApi } from '../support/test-api';
 import { createTestDatabase, type TestDatabase } from '../support/test-database';
+import { QUICK_SPHERE_SPEC } from '../support/specs';
 import { testEnv } from '../support/test-env';
 
 // The lab admin's pages in the browser against the real API: quotas edited
@@ -33,13 +34,15 @@ describe('the lab admin pages in the browser', () => {
   let browser: Browser;
   let demo: DemoCredentials;
   let researcherId: string;
+  let heldRunId: string;
   let adminToken: string;
 
   beforeAll(async () => {
     database = await createTestDatabase();
     demo = await seedDemoLabForTests(database.db);
-    // A Redis logical database of this file's own.
-    api = await startTestApi(database.url, { REDIS_URL: `${testEnv.redisUrl}/9` });
+    // A Redis logical database of this file's own. No scheduler: no worker computes here, and its
+    // reconciler would hand the run "held" by the inserted worker back to the queue.
+    api = await startTestApi(database.url, { REDIS_URL: `${testEnv.redisUrl}/9`, KILN_SCHEDULER: '0' });
     browser = await launchBrowser();
 
     const people = await database.db.selectFrom('users').select(['id', 'email']).execute();
@@ -55,6 +58,14 @@ describe('the lab admin pages in the browser', () => {
         { id: 'bench-silent:4202', host: 'bench-silent', pid: 4202, slots: 2, started_at: new Date(now - 7_200_000), last_heartbeat_at: new Date(now - 600_000), stopped_at: null },
       ])
       .execute();
+    // A run the fresh worker holds, as its claim writes it.
+    const study = await database.db.selectFrom('studies').select('id').executeTakeFirstOrThrow();
+    const held = await database.db
+      .insertInto('runs')
+      .values({ study_id: study.id, owner_id: idOf(demo.postdoc.email), spec: JSON.stringify(QUICK_SPHERE_SPEC), state: 'running', worker_id: 'bench-fresh:4101', started_at: new Date(now - 60_000), dispatched_at: new Date(now - 61_000), lease: 1, attempt: 1 })
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    heldRunId = held.id;
 
     // CPU time in the ledger for three months, as the runs' trigger would have counted it.
     const month = (back: number) => {
@@ -175,6 +186,8 @@ describe('the lab admin pages in the browser', () => {
   });
 
   it('the workers page lists a live worker and marks a stale one', async () => {
+    // The fresh worker beats again now, as its heartbeat loop would, so a slow run of this file cannot make it stale.
+    await database.db.updateTable('workers').set({ last_heartbeat_at: new Date() }).where('id', '=', 'bench-fresh:4101').execute();
     const page = await signedIn('admin');
     await page.goto(`${api.baseUrl}/lab/workers`);
     const fresh = page.locator('tr', { hasText: 'bench-fresh' });
@@ -185,7 +198,13 @@ describe('the lab admin pages in the browser', () => {
     expect(await silent.locator('[data-status]').textContent()).toBe('Stale');
     expect(await silent.locator('[data-status] svg').count()).toBe(1);
     expect(await silent.getByTestId('heartbeat').textContent()).toBe('10 min ago');
-    expect(await fresh.textContent()).toContain('0 of 4 slots busy');
+    expect(await fresh.textContent()).toContain('1 of 4 slots busy');
+    expect(await silent.textContent()).toContain('none');
+    // The held run links to its page.
+    await fresh.getByRole('link', { name: heldRunId.slice(0, 8) }).click();
+    await page.waitForURL(new RegExp(`/runs/${heldRunId}$`));
+    await page.goBack();
+    await fresh.waitFor({ timeout: 10_000 });
     await page.getByText('1 worker has stopped sending heartbeats').waitFor();
     await saveScreenshot(page, 'lab-workers');
     await page.context().close();

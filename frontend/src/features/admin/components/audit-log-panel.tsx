@@ -80,13 +80,13 @@ export function AuditLogPanel() {
     {
       title: 'Changed by',
       key: 'actor',
-      width: 170,
+      width: 150,
       render: (_, entry) => entry.actorName ?? (entry.actorId ? <span className="mono">{entry.actorId.slice(0, 8)}</span> : <span className="muted">Kiln itself</span>),
     },
     {
       title: 'What',
       key: 'action',
-      width: 240,
+      width: 210,
       render: (_, entry) => (
         <>
           <div className="strong-text">{actionLabel[entry.action] ?? entry.action}</div>
