@@ -150,6 +150,24 @@ describe('the research workflow in the browser', () => {
     await page.getByLabel('Values of Axis ratio b').fill('2, two');
     await page.getByText('"two" is not a number').waitFor();
 
+    // A log range must stay positive: the axis schema's message, in the browser and from the API.
+    await page.getByText('Range', { exact: true }).click();
+    await page.getByLabel('From').fill('0');
+    await page.getByLabel('To', { exact: true }).fill('3');
+    await page.getByLabel('Steps').fill('4');
+    await page.getByText('Log', { exact: true }).click();
+    const logMessage = 'a log range needs from > 0 and to > 0';
+    await page.getByText(logMessage, { exact: true }).waitFor();
+    const logRange = await api.request('POST', '/api/sweeps/preview', {
+      token: postdocToken,
+      body: { studyId, base: SWEEP_BASE, axes: [{ path: 'target.axisRatio', range: { from: 0, to: 3, steps: 4, scale: 'log' } }] },
+    });
+    expect(logRange.status).toBe(400);
+    expect(JSON.stringify(logRange.body)).toContain(logMessage);
+    await page.getByLabel('From').fill('0.5');
+    await expect.poll(() => page.getByTestId('preview-run-count').textContent(), { timeout: 10_000 }).toBe('4');
+    await page.getByText('Values', { exact: true }).click();
+
     // A sweep without a name is not sent.
     await page.getByLabel('Values of Axis ratio b').fill('2, 3');
     await page.getByRole('button', { name: 'Submit 2 runs' }).click();
