@@ -93,8 +93,8 @@ describe('checkpoint format (numerics.md §2 "Deterministic")', () => {
     wrongMagic[0] = 0x58;
     expect(() => deserializeCheckpoint(wrongMagic)).toThrow(/magic/);
 
-    const v2 = good.slice();
-    new DataView(v2.buffer).setUint32(8, 2, true);
-    expect(() => deserializeCheckpoint(v2)).toThrow(/unsupported checkpoint version 2/);
+    const v3 = good.slice();
+    new DataView(v3.buffer).setUint32(8, 3, true);
+    expect(() => deserializeCheckpoint(v3)).toThrow(/unsupported checkpoint version 3/);
   });
 });

@@ -1,5 +1,6 @@
 import { parseRunSpec } from '../spec';
 import { HISTORY_CAPACITY, HISTORY_FIELDS } from './flow-history';
+import { ProfileTarget } from './profile-target';
 import { restoreFlowRun, SCALAR_NAMES, type FlowRun, type FlowScalars } from './flow-run';
 
 /**
@@ -10,15 +11,19 @@ import { restoreFlowRun, SCALAR_NAMES, type FlowRun, type FlowScalars } from './
  *                      u32 spec length L, u32 scalar count S, u32 array count A, u32 0
  *   spec:   L bytes of UTF-8 JSON (the normalized run spec), zero-padded to a multiple of 8
  *   scalars: S float64 in the order of SCALAR_NAMES
- *   arrays: A × { u32 element count, u32 array id, count float64 }   (ids: 0 r, 1 h, 2 history)
+ *   arrays: A × { u32 element count, u32 array id, count float64 }   (ids: 0 r, 1 h, 2 history;
+ *           version 2 adds 3 target h, 4 target f, 5 target z: the knots of an uploaded
+ *           `profile` target, so the checkpoint resumes without the upload)
  *   trailer (8 bytes): u32 byte length of everything before the trailer, u32 CRC-32 of it
  *
  * Undrained diagnostic samples are not part of it: drain them before saving.
  */
 export const CHECKPOINT_MAGIC = 'KILNCKPT';
-export const CHECKPOINT_VERSION = 1;
+export const CHECKPOINT_VERSION = 2;
+/** Versions this engine reads: 1 (no target knots) and 2. */
+export const CHECKPOINT_READABLE_VERSIONS: readonly number[] = [1, 2];
 export const CHECKPOINT_HEADER_BYTES = 32;
-export const CHECKPOINT_ARRAY_IDS = { r: 0, h: 1, history: 2 } as const;
+export const CHECKPOINT_ARRAY_IDS = { r: 0, h: 1, history: 2, targetH: 3, targetF: 4, targetZ: 5 } as const;
 
 /** Error for a checkpoint that cannot be read; the message says why. */
 export class CheckpointError extends Error {
@@ -54,6 +59,14 @@ export function serializeCheckpoint(run: FlowRun): Uint8Array {
     [CHECKPOINT_ARRAY_IDS.h, run.h],
     [CHECKPOINT_ARRAY_IDS.history, run.history],
   ];
+  const target = run.model.target;
+  if (target instanceof ProfileTarget) {
+    arrays.push(
+      [CHECKPOINT_ARRAY_IDS.targetH, target.knotsH],
+      [CHECKPOINT_ARRAY_IDS.targetF, target.knotsF],
+      [CHECKPOINT_ARRAY_IDS.targetZ, target.knotsZ],
+    );
+  }
   let size = CHECKPOINT_HEADER_BYTES + specPadded + 8 * SCALAR_NAMES.length;
   for (const [, a] of arrays) size += 8 + 8 * a.length;
   const body = size;
@@ -105,9 +118,9 @@ export function deserializeCheckpoint(input: Uint8Array): FlowRun {
   }
   const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
   const version = view.getUint32(8, true);
-  if (version !== CHECKPOINT_VERSION) {
+  if (!CHECKPOINT_READABLE_VERSIONS.includes(version)) {
     throw new CheckpointError(
-      `unsupported checkpoint version ${version} (this engine reads version ${CHECKPOINT_VERSION})`,
+      `unsupported checkpoint version ${version} (this engine reads versions ${CHECKPOINT_READABLE_VERSIONS.join(' and ')})`,
     );
   }
   const body = bytes.length - 8;
@@ -128,8 +141,9 @@ export function deserializeCheckpoint(input: Uint8Array): FlowRun {
   const specLength = view.getUint32(16, true);
   const scalarCount = view.getUint32(20, true);
   const arrayCount = view.getUint32(24, true);
-  if (headerBytes !== CHECKPOINT_HEADER_BYTES || scalarCount !== SCALAR_NAMES.length || arrayCount !== 3) {
-    throw new CheckpointError('checkpoint header does not match format version 1');
+  const arrayCountOk = arrayCount === 3 || (version >= 2 && arrayCount === 6);
+  if (headerBytes !== CHECKPOINT_HEADER_BYTES || scalarCount !== SCALAR_NAMES.length || !arrayCountOk) {
+    throw new CheckpointError(`checkpoint header does not match format version ${version}`);
   }
   let o = headerBytes;
   const need = (n: number) => {
@@ -160,6 +174,7 @@ export function deserializeCheckpoint(input: Uint8Array): FlowRun {
     need(8);
     const length = view.getUint32(o, true);
     const id = view.getUint32(o + 4, true);
+    if (id >= arrayCount || arrays[id] !== undefined) throw new CheckpointError(`checkpoint has an unexpected array id ${id}`);
     o += 8;
     need(8 * length);
     const a = new Float64Array(length);
@@ -176,5 +191,17 @@ export function deserializeCheckpoint(input: Uint8Array): FlowRun {
     throw new CheckpointError('checkpoint arrays are missing or have inconsistent lengths');
   }
   if (o !== body) throw new CheckpointError('checkpoint has unexpected bytes after its arrays');
-  return restoreFlowRun(spec, scalars, r, h, history);
+  let target: ProfileTarget | undefined;
+  if (spec.target.kind === 'profile') {
+    const [kh, kf, kz] = [arrays[CHECKPOINT_ARRAY_IDS.targetH], arrays[CHECKPOINT_ARRAY_IDS.targetF], arrays[CHECKPOINT_ARRAY_IDS.targetZ]];
+    if (!kh || !kf || !kz) throw new CheckpointError('checkpoint of a "profile" target run lacks the target knots (arrays 3–5)');
+    try {
+      target = ProfileTarget.fromKnots(kh, kf, kz);
+    } catch (e) {
+      throw new CheckpointError(`checkpoint target knots are not a valid profile: ${(e as Error).message}`);
+    }
+  } else if (arrayCount !== 3) {
+    throw new CheckpointError('checkpoint carries target knots but its spec has no "profile" target');
+  }
+  return restoreFlowRun(spec, scalars, r, h, history, target);
 }

@@ -41,15 +41,25 @@ export function warp(domain: 'sphere' | 'ball', r: number): number {
   return domain === 'sphere' ? Math.sin(r) : r;
 }
 
+/**
+ * What the spec alone cannot say (flow-resources.ts, fork-flow-run.ts): the target
+ * geometry of an uploaded profile, whether tabulated or forked initial data are
+ * reflection-symmetric, and (on resume) the symmetry a run already uses.
+ */
+export interface FlowModelOverrides {
+  target?: TargetGeometry;
+  /** Replaces the spec's verdict on its initial data in the `auto`/`reflection` decision. */
+  initialSymmetric?: boolean;
+  /** The symmetry decided when the run started (a checkpoint's grid says which); skips the decision. */
+  symmetry?: SymmetryUsed;
+}
+
 /** Decides the symmetry mode and builds the model. Throws for features of later issues. */
-export function createFlowModel(spec: RunSpec): FlowModel {
+export function createFlowModel(spec: RunSpec, overrides: FlowModelOverrides = {}): FlowModel {
   if (spec.flow === 'normalized') {
     throw new Error('flow "normalized" is not yet supported by the engine (Möbius-normalized flow, a later issue)');
   }
-  if (spec.initial.kind === 'table') {
-    throw new Error('initial.kind "table" needs upload support, which the engine does not have yet');
-  }
-  const target = createTarget(spec.target);
+  const target = overrides.target ?? createTarget(spec.target);
   const m = spec.domain.dim;
   const area = unitSphereArea(m - 1);
   if (spec.domain.kind === 'ball') {
@@ -67,9 +77,11 @@ export function createFlowModel(spec: RunSpec): FlowModel {
       sphereArea: area,
     };
   }
-  const dataSymmetric = initialIsReflectionSymmetric(spec.initial) === true;
+  const dataSymmetric = overrides.initialSymmetric ?? initialIsReflectionSymmetric(spec.initial) === true;
   let symmetry: SymmetryUsed = 'none';
-  if (spec.symmetry === 'reflection') {
+  if (overrides.symmetry !== undefined) {
+    symmetry = overrides.symmetry;
+  } else if (spec.symmetry === 'reflection') {
     if (!dataSymmetric || !target.reflectionSymmetric) {
       throw new Error('symmetry "reflection" needs reflection-symmetric initial data and target');
     }

@@ -77,11 +77,12 @@ describe('run lifecycle and outcomes (numerics.md §3)', () => {
 
   it('features of later issues are refused with a clear error', () => {
     expect(() => createFlowRun(parseRunSpec({ ...smooth, flow: 'normalized' }))).toThrow(/not yet supported/);
+    // Uploads are inputs the engine cannot read itself: without them the error names the upload.
     expect(() => createFlowRun(parseRunSpec({ ...smooth, initial: { kind: 'table', uploadId: 'u1' } }))).toThrow(
-      /needs upload support/,
+      /needs the uploaded initial profile u1/,
     );
     expect(() => createFlowRun(parseRunSpec({ ...smooth, target: { kind: 'profile', uploadId: 'u1' } }))).toThrow(
-      /needs upload support/,
+      /needs the uploaded target profile u1/,
     );
   });
 

@@ -16,6 +16,8 @@ import {
 } from './flow-history';
 import { buildNodes, cellCount, initialGridParams, type GridParams } from './graded-grid';
 import { initialValue } from './initial-data';
+import { interpolateProfile, resolveStart, type FlowResources } from './flow-resources';
+import type { TargetGeometry } from './target-geometry';
 import { StepperWorkspace } from './tr-bdf2-stepper';
 import { maybeRefine } from './singularity-refinement';
 
@@ -218,14 +220,18 @@ export function refreshDiagnostics(run: FlowRun): void {
 
 /**
  * Builds grid, initial data and symmetry for a normalized spec (see `parseRunSpec`).
- * Throws a clear error for features of later issues (normalized flow, uploads).
+ * Uploaded tables the spec names (`initial.kind = "table"`, `target.kind = "profile"`)
+ * come in `resources` (flow-resources.ts); a missing or mismatched one is a clear error.
+ * Throws a clear error for features of later issues (normalized flow).
  */
-export function createFlowRun(spec: RunSpec): FlowRun {
-  const model = createFlowModel(spec);
-  const params = initialGridParams(model.length, model.leftPole, model.rightPole, spec.grid.points);
-  const r = buildNodes(params, spec.grid.points - 1);
+export function createFlowRun(spec: RunSpec, resources: FlowResources = {}): FlowRun {
+  const start = resolveStart(spec, resources);
+  const model = createFlowModel(spec, start.overrides);
+  const params = start.grid?.params ?? initialGridParams(model.length, model.leftPole, model.rightPole, spec.grid.points);
+  const r = start.grid?.r.slice() ?? buildNodes(params, spec.grid.points - 1);
   const h = new Float64Array(r.length);
-  for (let i = 0; i < r.length; i++) h[i] = initialValue(spec.domain, spec.initial, r[i]!);
+  if (start.profile) interpolateProfile(start.profile, r, h);
+  else for (let i = 0; i < r.length; i++) h[i] = initialValue(spec.domain, spec.initial, r[i]!);
   h[0] = model.leftValue;
   h[r.length - 1] = model.rightValue;
   const s = emptyScalars();
@@ -270,8 +276,11 @@ export function restoreFlowRun(
   r: Float64Array,
   h: Float64Array,
   history: Float64Array,
+  target?: TargetGeometry,
 ): FlowRun {
-  const model = createFlowModel(spec);
+  // The grid says which symmetry the run started with (it ends at π/2 under reflection).
+  const symmetry = spec.domain.kind === 'sphere' && r[r.length - 1]! < 0.75 * Math.PI ? 'reflection' : 'none';
+  const model = createFlowModel(spec, { target, symmetry });
   const run = {
     spec,
     model,
@@ -303,7 +312,7 @@ export function runOutcome(run: FlowRun): { outcome: FlowOutcome | null; reason:
   return { outcome: OUTCOME_CODES[run.s.outcomeCode] ?? null, reason: REASON_CODES[run.s.reasonCode] ?? null };
 }
 
-function recordHistory(run: FlowRun, force: boolean): void {
+export function recordHistory(run: FlowRun, force: boolean): void {
   const s = run.s;
   const logG = Math.log(run.gradMax);
   if (!force && logG - s.lastHistoryLogGrad < HISTORY_LOG_GROWTH && s.step - s.lastHistoryStep < HISTORY_STEP_INTERVAL) {
@@ -345,7 +354,7 @@ export function runDiagnostics(run: FlowRun): DiagnosticSample {
   };
 }
 
-function pushSample(run: FlowRun): void {
+export function pushSample(run: FlowRun): void {
   const s = run.s;
   if (run.samples.length >= ENGINE_SETTINGS.sampleBufferSize) {
     run.samples.shift();

@@ -50,3 +50,6 @@ export * from './blowup-fit';
 export * from './flow-run';
 export * from './flow-summary';
 export * from './checkpoint-format';
+export * from './profile-target';
+export * from './flow-resources';
+export * from './fork-flow-run';

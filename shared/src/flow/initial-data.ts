@@ -29,7 +29,7 @@ export function initialValue(domain: DomainSpec, initial: InitialSpec, r: number
         ? alpha * r + initial.amplitude * Math.sin(initial.mode * Math.PI * r)
         : r + initial.amplitude * Math.sin(initial.mode * r);
     case 'table':
-      throw new Error('initial.kind "table" needs upload support, which the engine does not have yet');
+      throw new Error(`initial.kind "table" is an uploaded profile (${initial.uploadId}): pass it as createFlowRun(spec, { initialProfile })`);
   }
 }
 

@@ -91,7 +91,7 @@ export class EllipsoidTarget implements TargetGeometry {
   }
 }
 
-/** Builds the target geometry of a spec. `profile` needs upload support (a later issue). */
+/** Builds the target geometry of a spec. A `profile` target is built from its upload (flow-resources.ts, profile-target.ts). */
 export function createTarget(spec: TargetSpec): TargetGeometry {
   switch (spec.kind) {
     case 'sphere':
@@ -99,6 +99,6 @@ export function createTarget(spec: TargetSpec): TargetGeometry {
     case 'ellipsoid':
       return new EllipsoidTarget(spec.axisRatio);
     case 'profile':
-      throw new Error('target.kind "profile" needs upload support, which the engine does not have yet');
+      throw new Error(`target.kind "profile" needs the uploaded target profile ${spec.uploadId}: pass it as createFlowRun(spec, { targetProfile })`);
   }
 }

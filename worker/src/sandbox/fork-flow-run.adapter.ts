@@ -1,18 +1,13 @@
-import * as engine from '@kiln/shared';
+import { forkFlowRun as engineForkFlowRun } from '@kiln/shared';
 import type { FlowRun, RunSpec } from '@kiln/shared';
 
-type ForkFlowRun = (parent: FlowRun, spec: RunSpec) => FlowRun;
-
 /**
- * The engine's `forkFlowRun(parent, spec)`: the parent checkpoint's state carried
- * onto the fork's own spec (its grid, step size, flow). Looked up at run time so the
- * worker builds against an engine that does not export it yet; a fork then fails
- * with a message that says so instead of starting from the wrong state.
+ * The engine's `forkFlowRun(parent, spec)` (shared/src/flow/fork-flow-run.ts): the
+ * parent checkpoint's state carried onto the fork's own spec (its grid, step size,
+ * tolerance, symmetry). An incompatible override (another domain, dimension, boundary
+ * angle or target; a flow the engine does not support) throws a `ForkError` whose
+ * message names the field, and the run fails with it.
  */
 export function forkFlowRun(parent: FlowRun, spec: RunSpec): FlowRun {
-  const fork = (engine as unknown as { forkFlowRun?: ForkFlowRun }).forkFlowRun;
-  if (typeof fork !== 'function') {
-    throw new Error('forking is not available in this engine build yet (the engine does not export forkFlowRun)');
-  }
-  return fork(parent, spec);
+  return engineForkFlowRun(parent, spec);
 }
