@@ -1,6 +1,6 @@
 import { quotaSchema } from '@kiln/shared';
 import { sql } from 'kysely';
-import type { Browser, Page } from 'playwright-core';
+import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { launchBrowser, saveScreenshot as saveFullPage } from '../support/browser';
 import { seedDemoLabForTests, type DemoCredentials } from '../support/demo-lab';
@@ -94,14 +94,22 @@ describe('the lab admin pages in the browser', () => {
     await database?.drop();
   });
 
+  /** Signed in through the sign-in page once per person; later pages start from that browser storage. */
+  const sessions = new Map<keyof DemoCredentials, Awaited<ReturnType<BrowserContext['storageState']>>>();
   async function signedIn(who: keyof DemoCredentials): Promise<Page> {
-    const context = await browser.newContext({ viewport: { width: 1280, height: 800 } });
+    const stored = sessions.get(who);
+    const context = await browser.newContext({ viewport: { width: 1280, height: 800 }, storageState: stored });
     const page = await context.newPage();
-    await page.goto(`${api.baseUrl}/sign-in`);
-    await page.getByLabel('E-mail').fill(demo[who].email);
-    await page.getByLabel('Password').fill(demo[who].password);
-    await page.getByRole('button', { name: 'Sign in' }).click();
+    if (stored) {
+      await page.goto(api.baseUrl);
+    } else {
+      await page.goto(`${api.baseUrl}/sign-in`);
+      await page.getByLabel('E-mail').fill(demo[who].email);
+      await page.getByLabel('Password').fill(demo[who].password);
+      await page.getByRole('button', { name: 'Sign in' }).click();
+    }
     await page.getByRole('button', { name: 'Sign out' }).waitFor({ timeout: 15_000 });
+    if (!stored) sessions.set(who, await context.storageState());
     return page;
   }
 
@@ -222,7 +230,7 @@ describe('the lab admin pages in the browser', () => {
     await page.context().close();
   });
 
-  it('the admin disables and enables a person after confirming; both are audited', async () => {
+  it('the admin disables and enables a person and changes a role, each after confirming; all audited', async () => {
     const page = await signedIn('admin');
     await page.getByRole('link', { name: 'Lab', exact: true }).click();
     const row = page.locator('tr', { hasText: demo.collaborator.email });
@@ -237,6 +245,17 @@ describe('the lab admin pages in the browser', () => {
     await row.getByText('Active', { exact: true }).waitFor({ timeout: 10_000 });
     const audit = await api.request('GET', '/api/admin/audit?action=person.update', { token: adminToken });
     expect(audit.body.items.map((e: { after: { disabled: boolean } }) => e.after.disabled)).toEqual([false, true]);
+
+    // A role change is confirmed too, and moves the person onto the new role's default quota.
+    await page.getByLabel(`Role of ${demo.collaborator.name}`).click();
+    await page.locator('.ant-select-item-option', { hasText: 'Researcher' }).click();
+    await page.locator('.ant-modal-confirm-title', { hasText: `Make ${demo.collaborator.name} a researcher?` }).waitFor({ timeout: 5_000 });
+    expect(await page.locator('.ant-modal-confirm').count()).toBe(1);
+    await saveScreenshot(page, 'lab-people-role-confirm');
+    await page.getByRole('button', { name: 'Make researcher' }).click();
+    await page.getByText(`${demo.collaborator.name} is now a researcher.`).waitFor({ timeout: 10_000 });
+    await page.getByRole('link', { name: /Quotas/ }).click();
+    await expect.poll(() => page.getByLabel(`Slots for ${demo.collaborator.name}`).inputValue(), { timeout: 10_000 }).toBe('4');
     await page.context().close();
   });
 

@@ -7,6 +7,7 @@ import { formatAge, formatDateTime, plural } from '@/lib/format';
 import { usePeople } from '../api/get-people';
 import { useAuditLog, type AuditSearch } from '../api/get-audit-log';
 import { AuditChange } from './audit-change';
+import { useNow } from './use-now';
 
 const PAGE_SIZE = 25;
 
@@ -42,6 +43,7 @@ export function AuditLogPanel() {
   const search = useMemo(() => toSearch(params), [params]);
   const audit = useAuditLog(search);
   const people = usePeople();
+  const now = useNow(30_000);
   const names = useMemo(() => new Map((people.data ?? []).map((p: User) => [p.id, p.name])), [people.data]);
 
   function setFilter(key: string, value: string | undefined) {
@@ -73,7 +75,7 @@ export function AuditLogPanel() {
       render: (_, entry) => (
         <>
           <div>{formatDateTime(entry.at)}</div>
-          <div className="table-sub">{formatAge(entry.at)}</div>
+          <div className="table-sub">{formatAge(entry.at, now)}</div>
         </>
       ),
     },

@@ -43,7 +43,7 @@ export function PeopleAdminPanel({ me }: { me: User }) {
       content: (
         <div className="confirm-body">
           <p>
-            {roleLabel[role]}s can: {roleAbilities[role]}
+            {roleLabel[role]}s can {roleAbilities[role].charAt(0).toLowerCase() + roleAbilities[role].slice(1)}
           </p>
           <p className="muted">
             Unless a custom quota is set for them, their quota becomes the {roleLabel[role].toLowerCase()} default: {plural(quota.slots, 'slot', 'slots')},{' '}
