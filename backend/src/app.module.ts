@@ -18,6 +18,7 @@ import { WorkersModule } from './workers/workers.module';
 import { AdminModule } from './admin/admin.module';
 import { InvitationsModule } from './invitations/invitations.module';
 import { MailModule } from './mail/mail.module';
+import { CandidatesModule } from './candidates/candidates.module';
 import { UploadsModule } from './uploads/uploads.module';
 import { NotificationsModule } from './notifications/notifications.module';
 import { ApiTokensModule } from './tokens/api-tokens.module';
@@ -51,6 +52,7 @@ export class AppModule {
         SchedulerModule,
         WorkersModule,
         UploadsModule,
+        CandidatesModule,
       ],
       providers: [{ provide: APP_FILTER, useClass: ApiExceptionFilter }],
     };

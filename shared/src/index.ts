@@ -15,3 +15,4 @@ export * from './api/studies.schemas';
 export * from './api/quotas.schemas';
 export * from './api/invitations.schemas';
 export * from './uploads';
+export * from './api/candidates.schemas';

@@ -1,5 +1,5 @@
 import { HttpStatus, Inject, Injectable } from '@nestjs/common';
-import { deserializeCheckpoint, ErrorCode, flowProfile, runTime, safeParseRunSpec, type CheckpointProfile, type ForkRequest, type Run } from '@kiln/shared';
+import { ErrorCode, flowProfile, runTime, safeParseRunSpec, type CheckpointProfile, type ForkRequest, type Run } from '@kiln/shared';
 import type { AuthenticatedUser } from '../auth/authenticated-user';
 import { ApiException, badInput, notFound } from '../common/api-error';
 import { DB, type Db } from '../database/database.module';
@@ -9,6 +9,7 @@ import { RunsRepository } from '../runs/runs.repository';
 import { RunsService } from '../runs/runs.service';
 import { StudyAccessService } from '../studies/study-access.service';
 import { applySpecOverrides } from './spec-overrides';
+import { loadCheckpointState } from './checkpoint-state';
 
 @Injectable()
 export class CheckpointsService {
@@ -43,13 +44,8 @@ export class CheckpointsService {
 
   /** The profile h(r) stored in the checkpoint, decoded by the engine (its checksum checked). */
   async profile(user: AuthenticatedUser, id: string): Promise<CheckpointProfile> {
-    const { bytes } = await this.file(user, id);
-    let run;
-    try {
-      run = deserializeCheckpoint(new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength));
-    } catch (error) {
-      throw new ApiException(HttpStatus.UNPROCESSABLE_ENTITY, ErrorCode.Unprocessable, `The checkpoint cannot be read: ${error instanceof Error ? error.message : String(error)}`);
-    }
+    await this.find(user, id);
+    const run = await loadCheckpointState(this.db, id);
     const { r, h } = flowProfile(run);
     return { r: Array.from(r), h: Array.from(h), t: runTime(run), step: run.s.step };
   }

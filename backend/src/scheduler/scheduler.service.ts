@@ -7,6 +7,7 @@ import type { KilnConfig } from '../config/config.schema';
 import { DB, type Db } from '../database/database.module';
 import { RunEventsService } from '../queue/run-events.service';
 import { RunQueue } from '../queue/run-queue';
+import { CandidateScannerService } from '../candidates/candidate-scanner.service';
 import { NotificationsService } from '../notifications/notifications.service';
 import { QuotasService } from '../quotas/quotas.service';
 import { planAdmission } from './admission-plan';
@@ -40,6 +41,7 @@ export class SchedulerService implements OnApplicationBootstrap, OnApplicationSh
     private readonly events: RunEventsService,
     private readonly quotas: QuotasService,
     private readonly notifications: NotificationsService,
+    private readonly candidates: CandidateScannerService,
   ) {}
 
   onApplicationBootstrap(): void {
@@ -66,16 +68,25 @@ export class SchedulerService implements OnApplicationBootstrap, OnApplicationSh
     this.busy = true;
     try {
       if (!(await this.ensureLeadership())) return;
-      if (this.ticks++ % RECONCILE_EVERY_TICKS === 0) {
-        await this.reconcile();
-        await this.quotas.resumeBudgetPausedRuns();
-        await this.notifications.sendDue();
-      }
+      if (this.ticks++ % RECONCILE_EVERY_TICKS === 0) await this.housekeeping();
       await this.admit();
     } catch (error) {
       this.logger.warn(`scheduler round failed, will retry: ${error instanceof Error ? error.message : String(error)}`);
     } finally {
       this.busy = false;
+    }
+  }
+
+  /** The slower duties of the active scheduler; one failing does not stop the others or admission. */
+  private async housekeeping(): Promise<void> {
+    const duties: [string, () => Promise<unknown>][] = [
+      ['reconcile the queue', () => this.reconcile()],
+      ['resume runs paused for budget', () => this.quotas.resumeBudgetPausedRuns()],
+      ['send notifications', () => this.notifications.sendDue()],
+      ['look for blow-up candidates', () => this.candidates.scan()],
+    ];
+    for (const [what, duty] of duties) {
+      await duty().catch((error: unknown) => this.logger.warn(`could not ${what}, will retry: ${error instanceof Error ? error.message : String(error)}`));
     }
   }
 

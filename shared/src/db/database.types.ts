@@ -222,6 +222,29 @@ export interface UploadsTable {
   created_at: Generated<Date>;
 }
 
+export interface CandidatesTable {
+  id: Generated<string>;
+  run_id: string;
+  study_id: string;
+  sweep_id: string | null;
+  found_while_running: boolean;
+  kind: 'type-I' | 'type-II' | 'infinite-time' | 'inconclusive';
+  confidence: number;
+  blowup_t: number | null;
+  blowup_t_uncertainty: number | null;
+  exponent: number | null;
+  exponent_uncertainty: number | null;
+  evidence: Json<unknown>;
+  checkpoint_id: string | null;
+  verdict: 'confirmed' | 'artefact' | 'needs-finer-run' | null;
+  verdict_note: string | null;
+  verdict_by: string | null;
+  verdict_at: TimestampNullable;
+  finer_run_id: string | null;
+  created_at: Generated<Date>;
+  updated_at: Generated<Date>;
+}
+
 export interface Database {
   users: UsersTable;
   api_tokens: ApiTokensTable;
@@ -240,4 +263,5 @@ export interface Database {
   invitations: InvitationsTable;
   password_resets: PasswordResetsTable;
   uploads: UploadsTable;
+  candidates: CandidatesTable;
 }
