@@ -11,7 +11,9 @@ import {
   summarizeFlowRun,
   type DiagnosticSample,
   type FlowRun,
+  type InitialProfile,
   type RunState,
+  type TargetProfile,
 } from '@kiln/shared';
 import type { CheckpointReasonValue } from '@kiln/shared/db';
 import { AbortReason } from './abort-reason';
@@ -202,7 +204,13 @@ export class RunExecution {
       if (!parent) throw new Error(`cannot fork: parent checkpoint ${claim.parentCheckpointId} no longer exists`);
       return forkFlowRun(readVerifiedCheckpoint(parent), spec);
     }
-    return createFlowRun(spec);
+    // The engine reads no uploads itself: a new run gets the tables its spec names.
+    return createFlowRun(spec, {
+      initialProfile:
+        spec.initial.kind === 'table' ? ((await this.store.loadUploadContent(spec.initial.uploadId, 'initial-profile')) as InitialProfile) : undefined,
+      targetProfile:
+        spec.target.kind === 'profile' ? ((await this.store.loadUploadContent(spec.target.uploadId, 'target-profile')) as TargetProfile) : undefined,
+    });
   }
 
   private progress(run: FlowRun) {

@@ -378,6 +378,22 @@ export class RunStore {
   }
 
   /**
+   * The parsed content of a profile upload (`{ domain, r, h }` or `{ h, f, z }`, as the
+   * API stored it after checking it) for a spec that names it; throws when there is no
+   * upload of that kind with that id. Only a new run needs it: checkpoints are self-contained.
+   */
+  async loadUploadContent(id: string, kind: 'initial-profile' | 'target-profile'): Promise<unknown> {
+    const uuid = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(id);
+    const row = !uuid
+      ? undefined
+      : await this.retrying('load upload', () =>
+          this.db.selectFrom('uploads').select(['kind', 'content']).where('id', '=', id).executeTakeFirst(),
+        );
+    if (!row || row.kind !== kind || row.content === null) throw new Error(`the spec names ${kind} upload ${id}, which does not exist`);
+    return typeof row.content === 'string' ? JSON.parse(row.content) : row.content;
+  }
+
+  /**
    * Starts a resume from one of the run's own checkpoints: copies it on top as a
    * `start` checkpoint (so a crash before the next checkpoint resumes from it, not
    * from a later one of the abandoned timeline), deletes the metrics after its step
