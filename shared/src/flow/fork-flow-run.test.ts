@@ -116,6 +116,21 @@ describe('forkFlowRun (issue 5: fork from a checkpoint with spec overrides)', ()
     expect(Math.abs(fork.energy - EXACT_ENERGY)).toBeLessThan(2e-3);
   });
 
+  it('a run that reached t_max continues in a fork with a later t_max', () => {
+    const parent = createFlowRun(spec({ time: { tMax: 0.5, maxStep: 0.1, tolerance: 1e-7 } }));
+    advanceFlowRun(parent);
+    expect(summarizeFlowRun(parent).outcome).toBe('time-limit');
+    const fork = forkFlowRun(parent, spec());
+    expect(fork.s.outcomeCode).toBe(0);
+    expect(runTime(fork)).toBe(0.5);
+    advanceFlowRun(fork);
+    const summary = summarizeFlowRun(fork);
+    expect(summary.outcome).toBe('converged');
+    expect(summary.tFinal).toBeGreaterThan(0.5);
+    expect(summary.energyInitial).toBe(parent.s.energyInitial);
+    expect(Math.abs(fork.energy - EXACT_ENERGY)).toBeLessThan(1e-3);
+  });
+
   it('a reflection-symmetric parent forks onto the whole sphere (symmetry "none"), mirrored', () => {
     const sphere: RunSpecInput = {
       domain: { kind: 'sphere', dim: 3 },
