@@ -12,6 +12,9 @@
 //   flow-run          create / advance / diagnostics / outcomes
 //   flow-summary      the §5 result object
 //   checkpoint-format versioned binary state, bit-identical resume
+//   profile-target    an uploaded target table as cubic splines (natural f, clamped z)
+//   flow-resources    uploaded tables handed in: createFlowRun(spec, { initialProfile, targetProfile })
+//   fork-flow-run     forkFlowRun(parent, spec): the parent's state on the fork's spec
 //
 // How the worker drives a run (all functions are pure computation, no clocks, no I/O):
 //
