@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { parseRunSpec, type RunSpecInput } from '../spec';
 import { advanceFlowRun, createFlowRun, flowProfile, runTime, type FlowRun } from './flow-run';
 import { deserializeCheckpoint, serializeCheckpoint } from './checkpoint-format';
-import { forkFlowRun } from './fork-flow-run';
+import { forkFlowRun, forkIncompatibility } from './fork-flow-run';
 import { summarizeFlowRun } from './flow-summary';
 
 // Ball B² → S² with boundary angle α = 2 < π from h₀ = α·r: the flow exists globally and
@@ -165,7 +165,9 @@ describe('forkFlowRun (issue 5: fork from a checkpoint with spec overrides)', ()
       /domain\.boundaryAngle/,
     );
     expect(() => forkFlowRun(parent, spec({ target: { kind: 'ellipsoid', axisRatio: 1.5 } }))).toThrow(/target/);
-    expect(() => forkFlowRun(parent, spec({ grid: { points: 61, maxPoints: 61 } }))).not.toThrow();
+    // The same check without a state, for the API to refuse such a fork up front.
+    expect(forkIncompatibility(spec(), spec({ target: { kind: 'ellipsoid', axisRatio: 1.5 } }))).toMatch(/^target /);
+    expect(forkIncompatibility(spec(), spec({ grid: { points: 300 }, time: { tMax: 10 } }))).toBeNull();
   });
 
   it('standard → normalized: forks when the engine supports the normalized flow, otherwise a clear error', () => {

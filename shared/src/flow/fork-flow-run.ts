@@ -130,20 +130,30 @@ function forkGrid(parent: FlowRun, spec: RunSpec, model: FlowModel): { params: G
 }
 
 function checkCompatible(a: RunSpec, b: RunSpec): void {
+  const problem = forkIncompatibility(a, b);
+  if (problem !== null) throw new ForkError(`cannot fork: ${problem}`);
+}
+
+/**
+ * Why a fork with spec `fork` cannot continue a run of spec `parent` (the domain,
+ * its dimension, the ball's boundary angle or the target differ), or null. Cheap and
+ * state-free, so the API can refuse such a fork before creating it; `forkFlowRun`
+ * applies the same check.
+ */
+export function forkIncompatibility(parent: RunSpec, fork: RunSpec): string | null {
+  const a = parent;
+  const b = fork;
   if (a.domain.kind !== b.domain.kind) {
-    throw new ForkError(`cannot fork: domain.kind "${b.domain.kind}" differs from the parent's "${a.domain.kind}" (the profile lives on the parent's domain)`);
+    return `domain.kind "${b.domain.kind}" differs from the parent's "${a.domain.kind}" (the profile lives on the parent's domain)`;
   }
-  if (a.domain.dim !== b.domain.dim) {
-    throw new ForkError(`cannot fork: domain.dim ${b.domain.dim} differs from the parent's ${a.domain.dim}`);
-  }
+  if (a.domain.dim !== b.domain.dim) return `domain.dim ${b.domain.dim} differs from the parent's ${a.domain.dim}`;
   if (a.domain.kind === 'ball' && b.domain.kind === 'ball' && a.domain.boundaryAngle !== b.domain.boundaryAngle) {
-    throw new ForkError(
-      `cannot fork: domain.boundaryAngle ${b.domain.boundaryAngle} differs from the parent's ${a.domain.boundaryAngle} (h(1) = α is part of the state)`,
-    );
+    return `domain.boundaryAngle ${b.domain.boundaryAngle} differs from the parent's ${a.domain.boundaryAngle} (h(1) = α is part of the state)`;
   }
   const key = (t: RunSpec['target']) =>
     t.kind === 'ellipsoid' ? `ellipsoid ${t.axisRatio}` : t.kind === 'profile' ? `profile ${t.uploadId}` : t.kind;
   if (key(a.target) !== key(b.target)) {
-    throw new ForkError(`cannot fork: target ${JSON.stringify(b.target)} differs from the parent's ${JSON.stringify(a.target)}`);
+    return `target ${JSON.stringify(b.target)} differs from the parent's ${JSON.stringify(a.target)}`;
   }
+  return null;
 }
