@@ -1,9 +1,9 @@
 import { axisValues, SWEEP_LIMITS, type SweepAxis } from '@kiln/shared';
 import { Alert, Button, Card, Form, Input, Radio, Select } from 'antd';
 import { IconCross, IconPlus } from '@/components/icons';
-import { formatNumber } from '@/lib/format';
 import { NumberField } from './number-field';
 import { FIELD_INFO, SWEEPABLE_OPTIONS, toAxis, type AxisDraft, type AxisErrors } from './spec-draft';
+import { formatAxisValue } from './sweep-axes';
 
 let nextKey = 100;
 export const newAxisDraft = (path: AxisDraft['path'] = 'target.axisRatio'): AxisDraft => ({
@@ -21,7 +21,7 @@ function valuesPreview(draft: AxisDraft): string | null {
   try {
     const values = axisValues(toAxis(draft) as SweepAxis).filter(Number.isFinite);
     if (!values.length) return null;
-    const shown = values.slice(0, 8).map((v) => formatNumber(v, 4)).join(', ');
+    const shown = values.slice(0, 8).map((v) => formatAxisValue(draft.path, v)).join(', ');
     return `${values.length} value${values.length === 1 ? '' : 's'}: ${shown}${values.length > 8 ? ', …' : ''}`;
   } catch {
     return null;

@@ -22,7 +22,7 @@ export function InitialProfileChart({ spec }: { spec: Pick<RunSpec, 'domain' | '
   const ball = spec.domain.kind === 'ball';
   const end = ball ? (spec.domain as { boundaryAngle: number }).boundaryAngle : Math.PI;
   const option = {
-    grid: { left: 52, right: 16, top: 24, bottom: 40 },
+    grid: { left: 52, right: 20, top: 24, bottom: 40 },
     tooltip: { trigger: 'axis', valueFormatter: (v: number) => formatNumber(v, 4) },
     xAxis: {
       type: 'value',
@@ -48,7 +48,7 @@ export function InitialProfileChart({ spec }: { spec: Pick<RunSpec, 'domain' | '
           symbol: 'none',
           silent: true,
           lineStyle: { color: palette.inkMuted, type: 'dashed' },
-          label: { formatter: ball ? 'h(1) = α' : 'h(π) = π', color: palette.inkMuted },
+          label: { formatter: ball ? 'h(1) = α' : 'h(π) = π', color: palette.inkMuted, position: 'insideStartTop' },
           data: [{ yAxis: end }],
         },
       },

@@ -1,8 +1,9 @@
 import type { SweepPreviewResponse } from '@kiln/shared';
 import { Alert, Card, Spin } from 'antd';
 import { QueryError } from '@/components/query-error';
-import { formatCpuHours, formatNumber, plural } from '@/lib/format';
+import { formatCpuHours, plural } from '@/lib/format';
 import { FIELD_INFO } from './spec-draft';
+import { formatAxisValue } from './sweep-axes';
 
 /** Run count and the rough CPU estimate of the sweep against the person's quota, live as they type. */
 export function SweepPreviewPanel({
@@ -75,7 +76,7 @@ export function SweepPreviewPanel({
                 {preview.sample.map((run, i) => (
                   <li key={i}>
                     {Object.entries(run.axisValues)
-                      .map(([path, v]) => `${FIELD_INFO[path as keyof typeof FIELD_INFO]?.label ?? path} = ${formatNumber(v, 4)}`)
+                      .map(([path, v]) => `${FIELD_INFO[path as keyof typeof FIELD_INFO]?.label ?? path} = ${formatAxisValue(path, v)}`)
                       .join(', ') || 'the base spec'}
                   </li>
                 ))}
