@@ -54,12 +54,16 @@ export function formatCpu(seconds: number | null | undefined): string {
 }
 
 /** CPU-hours for estimates and quotas. */
-export function formatCpuHours(hours: number | null | undefined): string {
+export const formatCpuHours = (hours: number | null | undefined) =>
+  hours === null || hours === undefined ? '—' : `${formatNumber(hours, hours < 10 ? 2 : 3)} CPU-h`;
+
+/** An amount of CPU time given in hours, in CPU-s or CPU-min when small (estimates, this month's use). */
+export function formatCpuAmount(hours: number | null | undefined): string {
   if (hours === null || hours === undefined) return '—';
-  // Tiny estimates read better in seconds or minutes than as 6.4e−4 CPU-h.
+  // Tiny amounts read better in seconds or minutes than as 6.4e−4 CPU-h.
   if (hours > 0 && hours < 1 / 60) return `${formatNumber(hours * 3600, 2)} CPU-s`;
   if (hours > 0 && hours < 1) return `${formatNumber(hours * 60, 2)} CPU-min`;
-  return `${formatNumber(hours, hours < 10 ? 2 : 3)} CPU-h`;
+  return formatCpuHours(hours);
 }
 
 /** Bytes as kB/MB. */

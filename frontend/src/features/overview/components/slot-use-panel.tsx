@@ -1,5 +1,5 @@
 import { Card, Progress } from 'antd';
-import { formatCpuHours, plural } from '@/lib/format';
+import { formatCpuAmount, formatCpuHours, plural } from '@/lib/format';
 import type { MyQuota } from '../api/get-my-quota';
 
 /** The signed-in person's runs in flight against their slot cap, and this month's CPU-hours. */
@@ -49,7 +49,7 @@ export function SlotUsePanel({
                 aria-label="CPU-hours used this month"
               />
               <div className="muted">
-                {formatCpuHours(quota.cpuHoursUsed)} of {formatCpuHours(quota.cpuHoursPerMonth)} used; runs start with at most{' '}
+                {formatCpuAmount(quota.cpuHoursUsed)} of {formatCpuHours(quota.cpuHoursPerMonth)} used; runs start with at most{' '}
                 {quota.maxGridPoints} grid points
               </div>
             </div>

@@ -1,7 +1,7 @@
 import type { SweepPreviewResponse } from '@kiln/shared';
 import { Alert, Card, Spin } from 'antd';
 import { QueryError } from '@/components/query-error';
-import { formatCpuHours, plural } from '@/lib/format';
+import { formatCpuAmount, formatCpuHours, plural } from '@/lib/format';
 import { FIELD_INFO } from './spec-draft';
 import { formatAxisValue } from './sweep-axes';
 
@@ -39,7 +39,7 @@ export function SweepPreviewPanel({
         <div className="figure">
           <div className="figure__name">Estimated CPU</div>
           <div className="figure__value" data-testid="preview-cpu-hours">
-            {preview && !blocked ? `≈ ${formatCpuHours(preview.estimatedCpuHours)}` : '—'}
+            {preview && !blocked ? `≈ ${formatCpuAmount(preview.estimatedCpuHours)}` : '—'}
           </div>
         </div>
       </div>
