@@ -43,7 +43,7 @@ as_pg_user() {
 wait_for_port() {
   local port=$1 what=$2 tries=${3:-100}
   while ! (exec 3<>"/dev/tcp/127.0.0.1/$port") 2>/dev/null; do
-    tries=$((tries - 1)); [ $tries -le 0 ] && die "$what did not start on port $port"
+    tries=$((tries - 1)); [ $tries -le 0 ] && { log "$what did not start on port $port"; return 1; }
     sleep 0.1
   done
 }

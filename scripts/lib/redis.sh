@@ -13,7 +13,8 @@ redis_start() {
       --appendonly yes --appendfsync everysec --maxmemory-policy noeviction \
       --daemonize yes --pidfile "$dir/redis.pid" --logfile "$dir/redis.log" --protected-mode yes \
       || die "redis-server did not start; see $dir/redis.log"
-    wait_for_port "$KILN_REDIS_PORT" Redis
+    wait_for_port "$KILN_REDIS_PORT" Redis 600 || true
+    port_is_free "$KILN_REDIS_PORT" && { tail -20 "$dir/redis.log" >&2; die "Redis did not start on port $KILN_REDIS_PORT; see $dir/redis.log"; }
   fi
   export REDIS_URL="${REDIS_URL:-redis://127.0.0.1:$KILN_REDIS_PORT}"
 }

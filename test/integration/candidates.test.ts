@@ -156,4 +156,21 @@ describe('blow-up candidates', () => {
     expect(linked.finerRunId).toBe(fork.body.id);
     expect(linked.finer).toMatchObject({ runId: fork.body.id });
   });
+
+  it('a long run is flagged while it is still running, once the indicators fire', async () => {
+    const runId = await submit('S3 into b = 5, long', {
+      domain: { kind: 'sphere', dim: 3 },
+      target: { kind: 'ellipsoid', axisRatio: 5 },
+      initial: { kind: 'identity' },
+      grid: { points: 1500 },
+      time: { tMax: 1000, maxStep: 0.05 },
+      stop: { gradientBound: 1e12 },
+    });
+    const candidate = await candidateOf(runId);
+    expect(candidate.foundWhileRunning).toBe(true);
+    expect(candidate.runState).toBe('running');
+    expect(candidate.checkpointId).not.toBeNull();
+    await api.request('POST', `/api/runs/${runId}/cancel`, { token: as(owner) });
+    await waitFor('the cancel', async () => (await api.request('GET', `/api/runs/${runId}`, { token: as(owner) })).body.state === 'cancelled', 30_000);
+  }, 120_000);
 });

@@ -118,6 +118,34 @@ describe('uploads and exports', () => {
     expect(target.body.summary).toEqual({ rows: n });
   });
 
+  it('a sweep from an uploaded initial profile and an uploaded target profile runs to an outcome; someone else\'s upload is refused', async () => {
+    const n = 200;
+    const grid = Array.from({ length: n }, (_, i) => (i / (n - 1)) * Math.PI);
+    const initial = await upload(alice, 'initial-profile', csv('r,h', grid.map((r) => [r, r])));
+    const b = 1.5;
+    const target = await upload(alice, 'target-profile', csv('h,f,z', grid.map((h, i) => [h, i === 0 || i === n - 1 ? 0 : Math.sin(h), b * Math.cos(h)])));
+    const base = {
+      domain: { kind: 'sphere', dim: 3 },
+      target: { kind: 'profile', uploadId: target.body.id },
+      initial: { kind: 'table', uploadId: initial.body.id },
+      grid: { points: 80 },
+      time: { tMax: 100, maxStep: 0.5 },
+      stop: { tension: 1e-7 },
+    };
+    const stolen = await api.request('POST', '/api/sweeps', { token: tokens[bruno.email], body: { studyId: studies[bruno.email], name: 'not mine', base, axes: [] } });
+    expect(stolen.status).toBe(400);
+    expect(stolen.body.message).toMatch(/no upload of yours/);
+    const sweep = await api.request('POST', '/api/sweeps', { token: tokens[alice.email], body: { studyId: studies[alice.email], name: 'uploaded', base, axes: [] } });
+    expect(sweep.status, sweep.text).toBe(201);
+    const runId = (await database.db.selectFrom('runs').select('id').where('sweep_id', '=', sweep.body.id).executeTakeFirstOrThrow()).id;
+    const run = await waitFor('the uploaded run to end', async () => {
+      const r = (await api.request('GET', `/api/runs/${runId}`, { token: tokens[alice.email] })).body;
+      return ['finished', 'failed'].includes(r.state) ? r : undefined;
+    }, 120_000);
+    expect(run.state, run.error).toBe('finished');
+    expect(run.outcome).toBe('converged');
+  }, 180_000);
+
   it('exports: metrics as CSV, the profile as CSV and as .npy read back by an independent reader; a checkpoint exported, imported by another person and resumed is bit-identical to resuming the original', async () => {
     const spec = longBallSpec(20);
     const sweep = await api.request('POST', '/api/sweeps', {

@@ -1,5 +1,5 @@
 import { HttpStatus, Inject, Injectable } from '@nestjs/common';
-import { ErrorCode, flowProfile, runTime, safeParseRunSpec, type CheckpointProfile, type ForkRequest, type Run } from '@kiln/shared';
+import { ErrorCode, flowProfile, forkIncompatibility, runTime, safeParseRunSpec, type CheckpointProfile, type ForkRequest, type Run } from '@kiln/shared';
 import type { AuthenticatedUser } from '../auth/authenticated-user';
 import { ApiException, badInput, notFound } from '../common/api-error';
 import { DB, type Db } from '../database/database.module';
@@ -69,6 +69,8 @@ export class CheckpointsService {
     if (!parsed.success) {
       throw badInput(`overrides: ${parsed.message}`, parsed.issues.map((issue) => ({ path: `overrides.${issue.path}`, message: issue.message })));
     }
+    const incompatible = forkIncompatibility(run.spec, parsed.spec);
+    if (incompatible) throw badInput(`overrides: ${incompatible}`, [{ path: 'overrides', message: incompatible }]);
     await this.quotas.assertSpecsWithin(user.id, [parsed.spec]);
     const { id: forkId } = await this.runsRepository.insertOne({
       study_id: run.studyId,

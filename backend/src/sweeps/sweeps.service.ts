@@ -8,6 +8,7 @@ import {
   type Page,
   type Run,
   type RunListQuery,
+  type RunSpec,
   type Sweep,
   type SweepPreviewRequest,
   type SweepPreviewResponse,
@@ -39,10 +40,29 @@ export class SweepsService {
     return expansion.runs;
   }
 
+  /** Uploads named by the spec (initial table, target profile) must be the submitter's own, of the right kind. */
+  private async assertUploadsUsable(user: AuthenticatedUser, spec: RunSpec): Promise<void> {
+    const wanted: { path: string; id: string; kind: 'initial-profile' | 'target-profile' }[] = [];
+    if (spec.initial.kind === 'table') wanted.push({ path: 'base.initial.uploadId', id: spec.initial.uploadId, kind: 'initial-profile' });
+    if (spec.target.kind === 'profile') wanted.push({ path: 'base.target.uploadId', id: spec.target.uploadId, kind: 'target-profile' });
+    for (const { path, id, kind } of wanted) {
+      const upload = /^[0-9a-f-]{36}$/i.test(id)
+        ? await this.db.selectFrom('uploads').select(['kind', 'content']).where('id', '=', id).where('owner_id', '=', user.id).executeTakeFirst()
+        : undefined;
+      if (!upload) throw badInput(`${path}: no upload of yours has this id`, [{ path, message: 'unknown upload' }]);
+      if (upload.kind !== kind) throw badInput(`${path}: this upload is a ${upload.kind}, not a ${kind}`, [{ path, message: `needs a ${kind}` }]);
+      const domain = (upload.content as { domain?: string } | null)?.domain;
+      if (kind === 'initial-profile' && domain && domain !== spec.domain.kind) {
+        throw badInput(`${path}: the table spans the ${domain}, but domain.kind is "${spec.domain.kind}"`, [{ path, message: `a ${domain} profile` }]);
+      }
+    }
+  }
+
   /** Run count and CPU estimate against the caller's quota; writes nothing. */
   async preview(user: AuthenticatedUser, body: SweepPreviewRequest): Promise<SweepPreviewResponse> {
     await this.access.assertCanWork(user, body.studyId);
     const runs = this.expand(body);
+    if (runs[0]) await this.assertUploadsUsable(user, runs[0].spec);
     await this.quotas.assertSpecsWithin(user.id, runs.map((run) => run.spec));
     const cpuSeconds = runs.reduce((sum, run) => sum + estimateRunCpuSeconds(run.spec), 0);
     const quota = await this.quotas.view(user.id);
@@ -62,6 +82,7 @@ export class SweepsService {
   async create(user: AuthenticatedUser, body: CreateSweepRequest): Promise<Sweep> {
     await this.access.assertCanWork(user, body.studyId);
     const runs = this.expand(body);
+    if (runs[0]) await this.assertUploadsUsable(user, runs[0].spec);
     await this.quotas.assertSpecsWithin(user.id, runs.map((run) => run.spec));
     const sweep = await this.db.transaction().execute(async (trx) => {
       const row = await trx
