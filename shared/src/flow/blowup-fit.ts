@@ -24,6 +24,9 @@ export interface BlowupEstimate {
     exponentialRms: number | null;
     /** Growth rate μ of max|∇u| ≈ C e^(μt) on the window. */
     exponentialRate: number | null;
+    /** Growth rates d ln max|∇u|/dt on the older and newer half of the window. */
+    rateEarly: number | null;
+    rateLate: number | null;
     /** T̂ from the older part of the window, to see whether the estimate recedes. */
     earlierT: number | null;
     /** ‖τ‖ at the end of the window over ‖τ‖ at its start (< 1: tension falling). */
@@ -185,6 +188,8 @@ export function estimateBlowup(rows: HistoryRow[]): BlowupEstimate {
       powerLawRms: null,
       exponentialRms: null,
       exponentialRate: null,
+      rateEarly: null,
+      rateLate: null,
       earlierT: null,
       tensionRatio: 1,
       energyLost: null,
@@ -224,7 +229,12 @@ export function estimateBlowup(rows: HistoryRow[]): BlowupEstimate {
   const pow = powerLawFit(s, y, span);
   const ex = exponentialFit(t, y);
   empty.evidence.exponentialRms = Math.sqrt(ex.rss / n);
-  empty.evidence.exponentialRate = ex.mu / 1;
+  empty.evidence.exponentialRate = ex.mu;
+  const half = Math.floor(n / 2);
+  const rateEarly = half >= 3 ? exponentialFit(t.slice(0, half), y.slice(0, half)).mu : null;
+  const rateLate = n - half >= 3 ? exponentialFit(t.slice(half), y.slice(half)).mu : null;
+  empty.evidence.rateEarly = rateEarly;
+  empty.evidence.rateLate = rateLate;
   // Older part of the window (drop its newest third) to see whether T̂ recedes.
   const m = Math.max(FIT_MIN_ROWS, Math.floor((2 * n) / 3));
   let earlierT: number | null = null;
@@ -278,6 +288,15 @@ export function estimateBlowup(rows: HistoryRow[]): BlowupEstimate {
     if (receding) notes.push('T̂ recedes as the window moves forward');
     if (beyondData) notes.push('best-fitting T̂ lies far beyond the data');
     result.kind = ex.mu > 0 ? 'infinite-time' : 'inconclusive';
+    // Approaching a very steep steady state (near an existence threshold) also grows
+    // max|∇u| roughly exponentially, but at a falling rate; a genuine infinite-time
+    // singularity keeps its rate.
+    if (result.kind === 'infinite-time' && rateEarly !== null && rateLate !== null && rateLate < 0.75 * rateEarly) {
+      result.kind = 'inconclusive';
+      notes.push(
+        `growth rate of ln max|∇u| falling (${rateEarly.toPrecision(3)} → ${rateLate.toPrecision(3)}): possibly the approach to a very steep steady state; needs a larger gradient bound or a finer run`,
+      );
+    }
     result.T = null;
     result.TUncertainty = null;
     result.confidence = result.kind === 'infinite-time' ? clamp01(0.4 + 0.3 * Math.min(decades, 2) / 2 + (receding ? 0.3 : 0)) : 0.1;

@@ -132,4 +132,34 @@ describe('ellipsoid targets (numerics.md §4.6)', () => {
     const e = blowupEstimate(r);
     expect(e.evidence.exponentialRate!).toBeGreaterThan(0);
   });
+
+  it('near the threshold b* = 2√2 the evidence separates a steep steady state from a singularity', () => {
+    // Source: b* = 2√(m−1)/(m−2) = 2√2 ≈ 2.83 for m = 3 (derived, numerics.md §4.6); close to an existence
+    // threshold the steady state itself is extremely steep, the look-alike of numerics.md §3.
+    const ellipsoid = (b: number, gradientBound: number) =>
+      run({
+        domain: { kind: 'sphere', dim: 3 },
+        target: { kind: 'ellipsoid', axisRatio: b },
+        initial: { kind: 'identity' },
+        grid: { points: 150 },
+        time: { tMax: 200, maxStep: 5 },
+        stop: { gradientBound, tension: 1e-8 },
+      });
+    // Below b*: a steady state exists; at b = 2.5 it is steep but the flow converges to it.
+    const below = summarizeFlowRun(ellipsoid(2.5, 1e6));
+    expect(below.outcome).toBe('converged');
+    expect(below.gradMaxFinal).toBeGreaterThan(100);
+    // Closer to b*, a modest gradient bound fires on the way to a steeper steady state: the growth rate
+    // is falling, so the engine does not call it a singularity.
+    const near = ellipsoid(2.7, 1e6);
+    const nearSummary = summarizeFlowRun(near);
+    expect(nearSummary.outcome).toBe('blowup');
+    expect(nearSummary.blowup!.kind).toBe('inconclusive');
+    expect(blowupEstimate(near).evidence.notes.join(' ')).toMatch(/steep steady state/);
+    // Just above b*: no steady state in the class; the gradient grows at a steady exponential rate.
+    const above = ellipsoid(2.9, 1e6);
+    expect(summarizeFlowRun(above).blowup!.kind).toBe('infinite-time');
+    const e = blowupEstimate(above).evidence;
+    expect(e.rateLate!).toBeGreaterThan(0.75 * e.rateEarly!);
+  });
 });

@@ -31,7 +31,7 @@ const E_1 = 1 / (1 - TR_GAMMA);
 /** Newton gives up after this many iterations in one stage… */
 const NEWTON_MAX_ITERATIONS = 8;
 /** …or when an update is not at least this much smaller than the one before (no contraction). */
-const NEWTON_MIN_CONTRACTION = 0.5;
+const NEWTON_MIN_CONTRACTION = 1;
 /**
  * A step may move no node by more than this (radians). A larger move means Newton
  * found another root of the implicit equations (the stiff core at a pole has
@@ -135,19 +135,34 @@ export class StepperWorkspace {
     z[n] = y[n]!;
     y1[0] = y[0]!;
     y1[n] = y[n]!;
+    // Predictors: explicit extrapolation first (good where the flow is smooth in t);
+    // if Newton fails from it, the previous value (good in a stiff core at a pole,
+    // where dt·F is huge), before the caller shrinks the step.
     for (let i = 1; i < n; i++) {
       rhs1[i] = y[i]! + theta * fn[i]!;
       z[i] = y[i]! + TR_GAMMA * dt * fn[i]!;
     }
-    const it1 = this.newton(rhs1, z, theta, newtonTol);
-    if (it1 < 0) return this.result(false, Infinity, NEWTON_MAX_ITERATIONS);
+    let it1 = this.newton(rhs1, z, theta, newtonTol);
+    let spent = 0;
+    if (it1 < 0) {
+      spent += NEWTON_MAX_ITERATIONS;
+      for (let i = 1; i < n; i++) z[i] = y[i]!;
+      it1 = this.newton(rhs1, z, theta, newtonTol);
+      if (it1 < 0) return this.result(false, Infinity, spent + NEWTON_MAX_ITERATIONS);
+    }
+    it1 += spent;
     for (let i = 1; i < n; i++) {
       fg[i] = (z[i]! - rhs1[i]!) / theta;
       rhs2[i] = W1 * z[i]! - W0 * y[i]!;
       y1[i] = y[i]! + (z[i]! - y[i]!) / TR_GAMMA;
     }
-    const it2 = this.newton(rhs2, y1, theta, newtonTol);
-    if (it2 < 0) return this.result(false, Infinity, it1 + NEWTON_MAX_ITERATIONS);
+    let it2 = this.newton(rhs2, y1, theta, newtonTol);
+    if (it2 < 0) {
+      for (let i = 1; i < n; i++) y1[i] = z[i]!;
+      it2 = this.newton(rhs2, y1, theta, newtonTol);
+      if (it2 < 0) return this.result(false, Infinity, it1 + 2 * NEWTON_MAX_ITERATIONS);
+      it2 += NEWTON_MAX_ITERATIONS;
+    }
     let move = 0;
     for (let i = 1; i < n; i++) {
       const d = Math.abs(y1[i]! - y[i]!);
