@@ -31,6 +31,8 @@ const router = createBrowserRouter([
               { path: paths.labWorkers.path, lazy: () => import('./routes/lab-workers') },
               { path: paths.labUsage.path, lazy: () => import('./routes/lab-usage') },
               { path: paths.labAudit.path, lazy: () => import('./routes/lab-audit') },
+              { path: paths.candidates.path, lazy: () => import('./routes/candidates') },
+              { path: paths.candidate.path, lazy: () => import('./routes/candidate') },
               { path: '*', lazy: () => import('./routes/not-found') },
             ],
           },

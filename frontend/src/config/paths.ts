@@ -48,6 +48,31 @@ export const paths = {
     path: '/lab/audit',
     getHref: () => '/lab/audit',
   },
+  candidates: {
+    path: '/candidates',
+    getHref: () => '/candidates',
+  },
+  candidate: {
+    path: '/candidates/:candidateId',
+    getHref: (candidateId: string) => `/candidates/${candidateId}`,
+  },
+  account: {
+    path: '/account',
+    getHref: () => '/account',
+  },
+  labOutbox: {
+    path: '/lab/outbox',
+    getHref: () => '/lab/outbox',
+  },
+  // Public pages reached from e-mailed links.
+  invitationAccept: {
+    path: '/invitations/accept',
+    getHref: (token?: string) => (token ? `/invitations/accept?token=${encodeURIComponent(token)}` : '/invitations/accept'),
+  },
+  resetPassword: {
+    path: '/reset-password',
+    getHref: (token?: string) => (token ? `/reset-password?token=${encodeURIComponent(token)}` : '/reset-password'),
+  },
   signIn: {
     path: '/sign-in',
     /** `redirectTo` is where to go after signing in (an in-app path). */

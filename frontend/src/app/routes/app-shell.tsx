@@ -2,7 +2,7 @@ import type { User } from '@kiln/shared';
 import { Button, Layout, Menu, type MenuProps } from 'antd';
 import { Link, Navigate, Outlet, useLocation, useNavigation } from 'react-router-dom';
 import { QueryError } from '@/components/query-error';
-import { IconLab, IconOverview, IconSignOut, IconStudies } from '@/components/icons';
+import { IconFlare, IconLab, IconOverview, IconSignOut, IconStudies } from '@/components/icons';
 import { FullPageSpinner } from '@/components/full-page-spinner';
 import { KilnMark, KilnWordmark } from '@/components/kiln-mark';
 import { RoleTag } from '@/components/role-tag';
@@ -16,6 +16,7 @@ function navItems(user: User): MenuProps['items'] {
   const items: MenuProps['items'] = [
     { key: paths.overview.path, icon: <IconOverview />, label: <Link to={paths.overview.getHref()}>Overview</Link> },
     { key: paths.studies.path, icon: <IconStudies />, label: <Link to={paths.studies.getHref()}>Studies</Link> },
+    { key: paths.candidates.path, icon: <IconFlare />, label: <Link to={paths.candidates.getHref()}>Candidates</Link> },
   ];
   if (isAdmin(user.role)) {
     items.push({ key: paths.lab.path, icon: <IconLab />, label: <Link to={paths.lab.getHref()}>Lab</Link> });
@@ -25,6 +26,7 @@ function navItems(user: User): MenuProps['items'] {
 
 function selectedKey(pathname: string): string {
   if (pathname === paths.lab.path || pathname.startsWith(`${paths.lab.path}/`)) return paths.lab.path;
+  if (pathname === paths.candidates.path || pathname.startsWith(`${paths.candidates.path}/`)) return paths.candidates.path;
   // Studies, sweeps and runs all live under "Studies".
   if (/^\/(studies|sweeps|runs)(\/|$)/.test(pathname)) return paths.studies.path;
   return pathname === paths.overview.path ? paths.overview.path : '';
@@ -55,7 +57,9 @@ function Shell({ user }: { user: User }) {
           <div className="shell__progress" data-active={navigation.state !== 'idle'} aria-hidden="true" />
           <div className="shell__header-spacer" />
           <div className="shell__user" aria-label="Signed in as">
-            <span className="shell__user-name">{user.name}</span>
+            <Link to={paths.account.getHref()} className="shell__user-name" title="Your account: notifications, API tokens, uploads">
+              {user.name}
+            </Link>
             <RoleTag role={user.role} />
           </div>
           <Button icon={<IconSignOut />} onClick={signOut}>

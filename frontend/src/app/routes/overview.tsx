@@ -6,6 +6,7 @@ import { PageHeader } from '@/components/page-header';
 import { QueryError } from '@/components/query-error';
 import { paths } from '@/config/paths';
 import { meQueryOptions, useMe } from '@/features/auth/api/get-me';
+import { NewCandidatesPanel } from '@/features/candidates/components/new-candidates-panel';
 import { healthQueryOptions } from '@/features/health/api/get-health';
 import { ServiceHealthPanel } from '@/features/health/components/service-health-panel';
 import { useMyQuota } from '@/features/overview/api/get-my-quota';
@@ -133,6 +134,7 @@ function OverviewRoute() {
               />
             )}
           </Card>
+          <NewCandidatesPanel />
           <Card title="Possible singularities" className="panel" size="small" extra={<span className="panel__meta">newest runs whose outcome is blow-up</span>}>
             <RunsTab runs={blowups} emptyText="No run in your studies has ended in blow-up." />
             <EvidenceCaution blowup compact />
