@@ -25,7 +25,7 @@ const SYMBOL: Record<string, string> = {
 /** What a run varies, in one line: its axis values, or "single run". */
 export function runLabel(run: Run): string {
   const entries = Object.entries(run.axisValues ?? {});
-  if (entries.length === 0) return run.parentRunId ? 'fork' : 'single run';
+  if (entries.length === 0) return run.parentRunId ? 'forked from a checkpoint' : 'single run';
   return entries
     .map(([path, value]) => `${SYMBOL[path] ?? path} = ${path === 'domain.boundaryAngle' ? `${formatNumber(value / Math.PI, 4)}π` : formatNumber(value, 4)}`)
     .join(', ');
