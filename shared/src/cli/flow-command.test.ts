@@ -8,11 +8,11 @@ const root = resolve(__dirname, '../../..');
 const command = join(root, 'shared/src/cli/flow-command.ts');
 const tsx = join(root, 'node_modules/.bin/tsx');
 
-function flow(spec: unknown) {
+function flow(spec: unknown, extra: string[] = []) {
   const dir = mkdtempSync(join(tmpdir(), 'kiln-flow-'));
   const file = join(dir, 'spec.json');
   writeFileSync(file, typeof spec === 'string' ? spec : JSON.stringify(spec));
-  return spawnSync(tsx, [command, file], { encoding: 'utf8', cwd: root });
+  return spawnSync(tsx, [command, file, ...extra], { encoding: 'utf8', cwd: root });
 }
 
 describe('flow command (numerics.md §5)', () => {
@@ -70,5 +70,32 @@ describe('flow command (numerics.md §5)', () => {
     const bad = flow('{ not json');
     expect(bad.status).toBe(2);
     expect(bad.stderr).toMatch(/not valid JSON/);
+  });
+
+  it('--dilation-profile adds F(s) = D(h∘γ_s) at the start and the end, for the s values exactly as given', () => {
+    // Source: F(s) = 12π² s/(1+s)² for the identity of S³ (derived, numerics.md §4.3); the identity is a steady state.
+    const res = flow(
+      {
+        domain: { kind: 'sphere', dim: 3 },
+        target: { kind: 'sphere' },
+        initial: { kind: 'identity' },
+        grid: { points: 200 },
+        time: { tMax: 0.1 },
+      },
+      ['--dilation-profile', '0.5,2,1e-1'],
+    );
+    expect(res.status).toBe(0);
+    const out = JSON.parse(res.stdout.trim());
+    for (const key of ['initial', 'final'] as const) {
+      const rows = out.dilationProfile[key] as [number, number][];
+      expect(rows.map(([s]) => s)).toEqual([0.5, 2, 0.1]);
+      for (const [s, F] of rows) expect(Math.abs(F - (12 * Math.PI ** 2 * s) / (1 + s) ** 2)).toBeLessThan(1e-2);
+    }
+    const bad = flow({ domain: { kind: 'sphere', dim: 3 }, target: { kind: 'sphere' }, initial: { kind: 'identity' } }, [
+      '--dilation-profile',
+      '1,-2',
+    ]);
+    expect(bad.status).toBe(2);
+    expect(bad.stderr).toMatch(/positive finite/);
   });
 });

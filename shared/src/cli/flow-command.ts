@@ -5,7 +5,7 @@
 // This is the only file of the engine that does I/O; keep it thin.
 import { readFileSync } from 'node:fs';
 import { safeParseRunSpec } from '../spec';
-import { advanceFlowRun, createFlowRun, runDiagnostics, summarizeFlowRun } from '../flow';
+import { advanceFlowRun, createFlowRun, dilationProfileOfRun, runDiagnostics, summarizeFlowRun } from '../flow';
 
 const PROGRESS_EVERY_SECONDS = 1;
 
@@ -21,8 +21,20 @@ function fail(message: string, code = 2): never {
 
 function main(): void {
   const args = process.argv.slice(2).filter((a) => a !== '--');
+  const usage = 'usage: npm run -s flow -- SPEC.json [--dilation-profile S1,S2,…]';
+  let dilationValues: number[] | null = null;
+  const k = args.indexOf('--dilation-profile');
+  if (k >= 0) {
+    const list = args[k + 1];
+    if (list === undefined) fail(`--dilation-profile needs a comma-separated list of s > 0; ${usage}`);
+    dilationValues = list.split(',').map((x) => Number(x.trim()));
+    if (dilationValues.length === 0 || dilationValues.some((v, i) => !(v > 0 && Number.isFinite(v)) || list.split(',')[i]!.trim() === '')) {
+      fail(`--dilation-profile: every s must be a positive finite number (got "${list}")`);
+    }
+    args.splice(k, 2);
+  }
   if (args.length !== 1 || args[0] === '-h' || args[0] === '--help') {
-    fail('usage: npm run -s flow -- SPEC.json');
+    fail(usage);
   }
   const file = args[0]!;
   let text: string;
@@ -42,12 +54,16 @@ function main(): void {
     for (const issue of parsed.issues) process.stderr.write(`flow: invalid run spec: ${issue.path}: ${issue.message}\n`);
     process.exit(2);
   }
+  if (dilationValues !== null && parsed.spec.domain.kind !== 'sphere') {
+    fail('--dilation-profile needs the sphere domain (dilations act on S^m)');
+  }
   let run;
   try {
     run = createFlowRun(parsed.spec);
   } catch (e) {
     fail((e as Error).message);
   }
+  const initialProfile = dilationValues !== null ? dilationProfileOfRun(run, dilationValues) : null;
   const start = process.cpuUsage();
   let nextReport = PROGRESS_EVERY_SECONDS;
   for (;;) {
@@ -64,7 +80,11 @@ function main(): void {
   }
   const summary = summarizeFlowRun(run, cpuSeconds(start));
   process.stderr.write(`outcome: ${summary.outcome} (${summary.reason})\n`);
-  process.stdout.write(`${JSON.stringify(summary)}\n`);
+  const output =
+    initialProfile !== null && dilationValues !== null
+      ? { ...summary, dilationProfile: { initial: initialProfile, final: dilationProfileOfRun(run, dilationValues) } }
+      : summary;
+  process.stdout.write(`${JSON.stringify(output)}\n`);
 }
 
 try {

@@ -2,6 +2,12 @@ import { describe, expect, it } from 'vitest';
 import { parseRunSpec } from '../spec';
 import { createFlowRun, advanceFlowRun, refreshDiagnostics } from './flow-run';
 import { unitSphereArea } from './flow-model';
+import { dilationProfileOfRun } from './dilation-profile';
+
+/** F(s) = 12π² s/(1+s)² for the identity of S³ (derived, numerics.md §4.3). */
+function identityS3DilationEnergy(s: number): number {
+  return (12 * Math.PI * Math.PI * s) / ((1 + s) * (1 + s));
+}
 
 function sphereIdentity(points: number, symmetry: 'auto' | 'none' = 'auto') {
   return createFlowRun(
@@ -63,9 +69,23 @@ describe('discrete energy (numerics.md §1, §2)', () => {
           time: { tMax: 1 },
         }),
       );
-      const exact = (12 * Math.PI * Math.PI * s) / ((1 + s) * (1 + s));
+      const exact = identityS3DilationEnergy(s);
       expect(Math.abs(run.energy - exact) / exact).toBeLessThan(1e-4);
     }
+  });
+
+  it('Möbius energy profile of the identity state: dilationProfileOfRun matches 12π² s/(1+s)², and F → 0 as s → 0', () => {
+    // Source: F(s) = 12π² s/(1+s)² for the identity of S³ (derived, numerics.md §4.3); F → 0 as s → 0 for m ≥ 3
+    // (Eells & Sampson, Amer. J. Math. 86, 1964; numerics.md §4.3). The state is the half-domain (reflection) run, mirrored.
+    const run = sphereIdentity(400);
+    const sValues = [0.1, 0.5, 2, 10];
+    const F = dilationProfileOfRun(run, sValues);
+    for (const [s, f] of F) expect(Math.abs(f - identityS3DilationEnergy(s)) / identityS3DilationEnergy(s)).toBeLessThan(1e-4);
+    const small = dilationProfileOfRun(run, [1e-1, 1e-2, 1e-3]).map(([, f]) => f);
+    expect(small[1]!).toBeLessThan(small[0]!);
+    expect(small[2]!).toBeLessThan(small[1]!);
+    expect(small[2]! / (3 * Math.PI * Math.PI)).toBeLessThan(0.01);
+    console.info(`identity of S³: F(1e-1, 1e-2, 1e-3) = ${small.map((f) => f.toPrecision(5)).join(', ')}`);
   });
 
   it('m = 2: γ_s on S² (2·arctan(r/λ) on the plane) is stationary with energy 4π', () => {

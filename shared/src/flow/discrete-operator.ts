@@ -36,6 +36,14 @@ export class DiscreteOperator {
   readonly volume: Float64Array;
   /** cos r̄_j, for the center integral. */
   readonly cosMid: Float64Array;
+  /**
+   * The dilation generator sin r·h_r at interior node i (numerics.md §1, normalized flow) as
+   * driftLower[i]·h_{i−1} + driftDiag[i]·h_i + driftUpper[i]·h_{i+1}: the three-point
+   * second-order derivative on the non-uniform grid times sin r_i (0 at the ends and on the ball).
+   */
+  readonly driftLower: Float64Array;
+  readonly driftDiag: Float64Array;
+  readonly driftUpper: Float64Array;
   /** Filled by assemble: a cell's share ½P(h̄_j)a_jΔ_j of the lumped mass of each of its nodes… */
   readonly cellMass: Float64Array;
   /** …and its derivative in either node value, ¼P'(h̄_j)a_jΔ_j. */
@@ -59,6 +67,9 @@ export class DiscreteOperator {
     this.cosMid = new Float64Array(n);
     this.cellMass = new Float64Array(n);
     this.cellMassSlope = new Float64Array(n);
+    this.driftLower = new Float64Array(n + 1);
+    this.driftDiag = new Float64Array(n + 1);
+    this.driftUpper = new Float64Array(n + 1);
     const m = model.m;
     for (let j = 0; j < n; j++) {
       const d = r[j + 1]! - r[j]!;
@@ -75,6 +86,19 @@ export class DiscreteOperator {
     }
     for (let i = 1; i < n; i++) {
       this.volume[i] = 0.5 * (this.a[i - 1]! * this.dr[i - 1]! + this.a[i]! * this.dr[i]!);
+    }
+    if (model.domain === 'sphere') {
+      for (let i = 1; i < n; i++) {
+        const dl = r[i]! - r[i - 1]!;
+        const du = r[i + 1]! - r[i]!;
+        const ri = r[i]!;
+        const sinR = model.rightPole && ri > 0.5 * Math.PI ? Math.sin(Math.PI - ri) : Math.sin(ri);
+        const cu = dl / ((dl + du) * du);
+        const cl = du / ((dl + du) * dl);
+        this.driftUpper[i] = sinR * cu;
+        this.driftLower[i] = -sinR * cl;
+        this.driftDiag[i] = sinR * (cl - cu);
+      }
     }
     this.volume[0] = 0.5 * this.a[0]! * this.dr[0]!;
     this.volume[n] = 0.5 * this.a[n - 1]! * this.dr[n - 1]!;
@@ -218,5 +242,62 @@ export class DiscreteOperator {
     out[1] = at;
     out[2] = 0.5 * center;
     return energy;
+  }
+
+  /**
+   * Center X_h/|S^(m−1)| = ½ Σ_j cos r̄_j (P(h̄_j) s_j² + (m−1)Q(h̄_j)/g(r̄_j)²) a_j Δ_j: the
+   * midpoint rule of §1's X = |S^(m−1)| ∫ cos r · e · sin^(m−1) r dr, cell by cell the energy
+   * density of D_h weighted by cos r̄_j (the same sum {@link diagnostics} accumulates).
+   */
+  center(h: Float64Array): number {
+    const n = this.cells;
+    const tv = this.tv;
+    const target = this.model.target;
+    let center = 0;
+    for (let j = 0; j < n; j++) {
+      const d = this.dr[j]!;
+      const s = (h[j + 1]! - h[j]!) / d;
+      target.evaluate(0.5 * (h[j]! + h[j + 1]!), tv);
+      const e2 = tv[0]! * s * s + this.potential[j]! * tv[3]!;
+      center += this.cosMid[j]! * e2 * this.a[j]! * d;
+    }
+    return 0.5 * center;
+  }
+
+  /**
+   * L = ∂X_h/∂h (without |S^(m−1)|) into `out`, so that L·v is the derivative of the
+   * center along a variation v (numerics.md §1): the gradient of D_h with every cell's
+   * weights multiplied by cos r̄_j. Returns X_h/|S^(m−1)| at h.
+   */
+  centerGradient(h: Float64Array, out: Float64Array): number {
+    const n = this.cells;
+    const tv = this.tv;
+    const target = this.model.target;
+    let carry = 0;
+    let center = 0;
+    for (let j = 0; j < n; j++) {
+      const d = this.dr[j]!;
+      const a = this.a[j]!;
+      const cj = this.cosMid[j]!;
+      const s = (h[j + 1]! - h[j]!) / d;
+      target.evaluate(0.5 * (h[j]! + h[j + 1]!), tv);
+      const A = cj * a * tv[0]! * s;
+      const B = 0.25 * cj * (a * d * tv[1]! * s * s + this.c[j]! * tv[4]!);
+      out[j] = carry - A + B;
+      carry = A + B;
+      center += cj * (tv[0]! * s * s + this.potential[j]! * tv[3]!) * a * d;
+    }
+    out[n] = carry;
+    return 0.5 * center;
+  }
+
+  /** The dilation generator w = sin r·h_r at the nodes into `out` (0 at the ends). */
+  drift(h: Float64Array, out: Float64Array): void {
+    const n = this.cells;
+    out[0] = 0;
+    out[n] = 0;
+    for (let i = 1; i < n; i++) {
+      out[i] = this.driftLower[i]! * h[i - 1]! + this.driftDiag[i]! * h[i]! + this.driftUpper[i]! * h[i + 1]!;
+    }
   }
 }

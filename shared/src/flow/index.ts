@@ -56,3 +56,5 @@ export * from './checkpoint-format';
 export * from './profile-target';
 export * from './flow-resources';
 export * from './fork-flow-run';
+export * from './mobius-dilations';
+export * from './dilation-profile';
