@@ -60,7 +60,7 @@ export class CandidateScannerService {
       .innerJoin('checkpoints', 'checkpoints.run_id', 'runs.id')
       .leftJoin('candidates', 'candidates.run_id', 'runs.id')
       .select(['runs.id as run_id', 'checkpoints.id as checkpoint_id', 'checkpoints.seq'])
-      .where('runs.state', '=', 'running')
+      .where('runs.state', 'in', ['running', 'paused'])
       .where('candidates.id', 'is', null)
       .orderBy('runs.id')
       .orderBy('checkpoints.seq', 'desc')

@@ -80,7 +80,7 @@ export class CandidatesService {
     const total = (await q.clearSelect().select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirstOrThrow()).n;
     const column = { confidence: 'candidates.confidence', T: 'candidates.blowup_t', created: 'candidates.created_at' }[query.sort] as 'candidates.confidence';
     const rows = (await q
-      .orderBy(column, sql.raw(`${query.order} NULLS LAST`) as any)
+      .orderBy(column, (ob) => (query.order === 'asc' ? ob.asc() : ob.desc()).nullsLast())
       .orderBy('candidates.id')
       .limit(query.pageSize)
       .offset((query.page - 1) * query.pageSize)

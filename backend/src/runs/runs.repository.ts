@@ -67,7 +67,7 @@ export class RunsRepository {
       .leftJoin('checkpoints as parent', 'parent.id', 'runs.parent_checkpoint_id')
       .selectAll('runs')
       .select('parent.run_id as parent_run_id')
-      .orderBy(column as any, sql.raw(`${query.order} NULLS LAST`) as any)
+      .orderBy(column as any, (ob) => (query.order === 'asc' ? ob.asc() : ob.desc()).nullsLast())
       .orderBy('runs.sweep_index')
       .orderBy('runs.id')
       .limit(query.pageSize)
