@@ -93,8 +93,8 @@ describe('checkpoint format (numerics.md §2 "Deterministic")', () => {
     wrongMagic[0] = 0x58;
     expect(() => deserializeCheckpoint(wrongMagic)).toThrow(/magic/);
 
-    const v3 = good.slice();
-    new DataView(v3.buffer).setUint32(8, 3, true);
-    expect(() => deserializeCheckpoint(v3)).toThrow(/unsupported checkpoint version 3/);
+    const v9 = good.slice();
+    new DataView(v9.buffer).setUint32(8, 9, true);
+    expect(() => deserializeCheckpoint(v9)).toThrow(/unsupported checkpoint version 9/);
   });
 });

@@ -1,7 +1,7 @@
 import { parseRunSpec } from '../spec';
 import { HISTORY_CAPACITY, HISTORY_FIELDS } from './flow-history';
 import { ProfileTarget } from './profile-target';
-import { restoreFlowRun, SCALAR_NAMES, type FlowRun, type FlowScalars } from './flow-run';
+import { restoreFlowRun, SCALAR_COUNT_V2, SCALAR_NAMES, type FlowRun, type FlowScalars } from './flow-run';
 
 /**
  * Versioned binary checkpoint of a run (docs/checkpoint-format.md has the byte
@@ -14,14 +14,16 @@ import { restoreFlowRun, SCALAR_NAMES, type FlowRun, type FlowScalars } from './
  *   arrays: A × { u32 element count, u32 array id, count float64 }   (ids: 0 r, 1 h, 2 history;
  *           version 2 adds 3 target h, 4 target f, 5 target z: the knots of an uploaded
  *           `profile` target, so the checkpoint resumes without the upload)
+ *   version 3: 31 scalars (adds the normalized flow's re-centring record and σ at t = 0;
+ *           versions 1 and 2 have 26 and are read with the defaults s = 1, the rest 0)
  *   trailer (8 bytes): u32 byte length of everything before the trailer, u32 CRC-32 of it
  *
  * Undrained diagnostic samples are not part of it: drain them before saving.
  */
 export const CHECKPOINT_MAGIC = 'KILNCKPT';
-export const CHECKPOINT_VERSION = 2;
-/** Versions this engine reads: 1 (no target knots) and 2. */
-export const CHECKPOINT_READABLE_VERSIONS: readonly number[] = [1, 2];
+export const CHECKPOINT_VERSION = 3;
+/** Versions this engine reads: 1 (no target knots), 2 and 3 (normalized-flow scalars). */
+export const CHECKPOINT_READABLE_VERSIONS: readonly number[] = [1, 2, 3];
 export const CHECKPOINT_HEADER_BYTES = 32;
 export const CHECKPOINT_ARRAY_IDS = { r: 0, h: 1, history: 2, targetH: 3, targetF: 4, targetZ: 5 } as const;
 
@@ -120,7 +122,7 @@ export function deserializeCheckpoint(input: Uint8Array): FlowRun {
   const version = view.getUint32(8, true);
   if (!CHECKPOINT_READABLE_VERSIONS.includes(version)) {
     throw new CheckpointError(
-      `unsupported checkpoint version ${version} (this engine reads versions ${CHECKPOINT_READABLE_VERSIONS.join(' and ')})`,
+      `unsupported checkpoint version ${version} (this engine reads versions ${CHECKPOINT_READABLE_VERSIONS.join(', ')})`,
     );
   }
   const body = bytes.length - 8;
@@ -142,7 +144,8 @@ export function deserializeCheckpoint(input: Uint8Array): FlowRun {
   const scalarCount = view.getUint32(20, true);
   const arrayCount = view.getUint32(24, true);
   const arrayCountOk = arrayCount === 3 || (version >= 2 && arrayCount === 6);
-  if (headerBytes !== CHECKPOINT_HEADER_BYTES || scalarCount !== SCALAR_NAMES.length || !arrayCountOk) {
+  const expectedScalars = version >= 3 ? SCALAR_NAMES.length : SCALAR_COUNT_V2;
+  if (headerBytes !== CHECKPOINT_HEADER_BYTES || scalarCount !== expectedScalars || !arrayCountOk) {
     throw new CheckpointError(`checkpoint header does not match format version ${version}`);
   }
   let o = headerBytes;
@@ -165,7 +168,9 @@ export function deserializeCheckpoint(input: Uint8Array): FlowRun {
   o += Math.ceil(specLength / 8) * 8;
   need(8 * scalarCount);
   const scalars = {} as FlowScalars;
-  for (const name of SCALAR_NAMES) {
+  for (const name of SCALAR_NAMES) scalars[name] = 0;
+  scalars.recentreS = 1;
+  for (const name of SCALAR_NAMES.slice(0, scalarCount)) {
     scalars[name] = view.getFloat64(o, true);
     o += 8;
   }

@@ -54,10 +54,10 @@ export interface FlowModelOverrides {
   symmetry?: SymmetryUsed;
 }
 
-/** Decides the symmetry mode and builds the model. Throws for features of later issues. */
+/** Decides the symmetry mode and builds the model. */
 export function createFlowModel(spec: RunSpec, overrides: FlowModelOverrides = {}): FlowModel {
-  if (spec.flow === 'normalized') {
-    throw new Error('flow "normalized" is not yet supported by the engine (Möbius-normalized flow, a later issue)');
+  if (spec.flow === 'normalized' && spec.domain.kind !== 'sphere') {
+    throw new Error('flow "normalized" is defined only on the sphere domain');
   }
   const target = overrides.target ?? createTarget(spec.target);
   const m = spec.domain.dim;

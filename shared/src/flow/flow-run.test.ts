@@ -75,8 +75,7 @@ describe('run lifecycle and outcomes (numerics.md §3)', () => {
     expect(drainSamples(run)).toEqual([]);
   });
 
-  it('features of later issues are refused with a clear error', () => {
-    expect(() => createFlowRun(parseRunSpec({ ...smooth, flow: 'normalized' }))).toThrow(/not yet supported/);
+  it('missing uploads are refused with a clear error', () => {
     // Uploads are inputs the engine cannot read itself: without them the error names the upload.
     expect(() => createFlowRun(parseRunSpec({ ...smooth, initial: { kind: 'table', uploadId: 'u1' } }))).toThrow(
       /needs the uploaded initial profile u1/,

@@ -20,6 +20,7 @@ import { interpolateProfile, resolveStart, type FlowResources } from './flow-res
 import type { TargetGeometry } from './target-geometry';
 import { StepperWorkspace } from './tr-bdf2-stepper';
 import { maybeRefine } from './singularity-refinement';
+import { functionSource, profileSource, recentreOnGrid } from './mobius-dilations';
 
 /** How a run ended (numerics.md §3). */
 export type FlowOutcome = 'converged' | 'blowup' | 'time-limit' | 'numerics-failed' | 'degenerate';
@@ -34,7 +35,8 @@ export type OutcomeReason =
   | 'cpu-budget'
   | 'non-finite'
   | 'newton-failure'
-  | 'concentration';
+  | 'concentration'
+  | 'sigma-denominator';
 
 export const OUTCOME_CODES: readonly (FlowOutcome | null)[] = [
   null,
@@ -55,6 +57,7 @@ export const REASON_CODES: readonly (OutcomeReason | null)[] = [
   'non-finite',
   'newton-failure',
   'concentration',
+  'sigma-denominator',
 ];
 
 /**
@@ -88,7 +91,15 @@ export const SCALAR_NAMES = [
   'reasonCode',
   'refinementCapped',
   'samplesDropped',
+  // Version 3 (normalized flow, numerics.md §1): what re-centring did and σ at t = 0, for the summary.
+  'recentreS',
+  'recentreCenterBefore',
+  'recentreEnergyBefore',
+  'recentreEnergyAfter',
+  'sigmaInitial',
 ] as const;
+/** Scalars of checkpoint versions 1 and 2 (the first 26 of {@link SCALAR_NAMES}). */
+export const SCALAR_COUNT_V2 = 26;
 export type ScalarName = (typeof SCALAR_NAMES)[number];
 export type FlowScalars = Record<ScalarName, number>;
 
@@ -108,6 +119,11 @@ export interface DiagnosticSample {
   center: number | null;
   /** σ of the normalized flow (0 for the standard flow); null on the ball. */
   sigma: number | null;
+  /**
+   * Denominator of σ = −L[τ]/L[sin r·h_r]: dX along the dilation generator, L[sin r·h_r]
+   * (normalized flow on the whole sphere; null otherwise).
+   */
+  sigmaDenominator: number | null;
   points: number;
   /** Newton iterations since the start of the run. */
   newtonIterations: number;
@@ -140,6 +156,12 @@ export const ENGINE_SETTINGS = {
    * (reason `concentration`), never as `converged`.
    */
   concentrationGrowth: 1e4,
+  /**
+   * Normalized flow: the σ-equation is degenerate when |L·w| falls below this fraction
+   * of its scale ‖L‖_{M⁻¹}‖w‖_M (Cauchy–Schwarz bound, so the ratio lies in [0, 1]):
+   * outcome `degenerate` (reason `sigma-denominator`).
+   */
+  degenerateRatio: 1e-8,
 } as const;
 
 /**
@@ -167,6 +189,14 @@ export interface FlowRun {
   gradMax: number;
   gradMaxCell: number;
   center: number;
+  /** Normalized flow on the whole sphere (σ is an unknown); false for standard runs and under reflection symmetry (σ ≡ 0). */
+  normalized: boolean;
+  /** Instantaneous σ = −L·τ/L·w (numerics.md §1), its denominator (×|S^(m−1)|) and |L·w|/(‖L‖_{M⁻¹}‖w‖_M). */
+  sigma: number;
+  sigmaDenominator: number;
+  sigmaRatio: number;
+  /** F_n handed to the stepper: τ (standard, the same array) or τ + σ·w (normalized). */
+  velocity: Float64Array;
   /** Samples waiting to be drained by the caller (not checkpointed: drain before saving). */
   samples: DiagnosticSample[];
   /** Scratch for DiscreteOperator.diagnostics. */
@@ -199,8 +229,9 @@ export function runTime(run: FlowRun): number {
 /** Rebuilds operator, workspace and diagnostics after the grid (r) or h changed. */
 export function rebuildDerived(run: FlowRun): void {
   run.op = new DiscreteOperator(run.model, run.r);
-  run.ws = new StepperWorkspace(run.op);
+  run.ws = new StepperWorkspace(run.op, run.normalized);
   run.tau = new Float64Array(run.r.length);
+  run.velocity = run.normalized ? new Float64Array(run.r.length) : run.tau;
   refreshDiagnostics(run);
 }
 
@@ -216,6 +247,40 @@ export function refreshDiagnostics(run: FlowRun): void {
   run.gradMax = run.scratch3[0]!;
   run.gradMaxCell = run.scratch3[1]!;
   run.center = run.model.symmetry === 'reflection' ? 0 : run.model.sphereArea * run.scratch3[2]!;
+  if (run.normalized) refreshSigma(run);
+}
+
+/**
+ * σ of the normalized flow at the current state (numerics.md §1): σ = −L·τ / L·w with
+ * L = ∂X_h/∂h and w = sin r·h_r, and the velocity τ + σw. Uses the masses of the
+ * diagnostics pass just made. With a degenerate denominator σ is left at 0 (the
+ * caller ends the run as `degenerate`; nothing is divided by it).
+ */
+function refreshSigma(run: FlowRun): void {
+  const op = run.op;
+  const L = run.ws.cgrad;
+  const w = run.ws.wdrift;
+  op.centerGradient(run.h, L);
+  op.drift(run.h, w);
+  const cm = op.cellMass;
+  const n = op.cells;
+  let lt = 0;
+  let lw = 0;
+  let ll = 0;
+  let ww = 0;
+  for (let i = 1; i < n; i++) {
+    const mass = cm[i - 1]! + cm[i]!;
+    lt += L[i]! * run.tau[i]!;
+    lw += L[i]! * w[i]!;
+    ll += (L[i]! * L[i]!) / mass;
+    ww += mass * w[i]! * w[i]!;
+  }
+  const scale = Math.sqrt(ll * ww);
+  run.sigmaRatio = scale > 0 ? Math.abs(lw) / scale : 0;
+  run.sigmaDenominator = run.model.sphereArea * lw;
+  run.sigma = run.sigmaRatio >= ENGINE_SETTINGS.degenerateRatio ? -lt / lw : 0;
+  const v = run.velocity;
+  for (let i = 0; i <= n; i++) v[i] = run.tau[i]! + run.sigma * w[i]!;
 }
 
 /**
@@ -248,8 +313,28 @@ export function createFlowRun(spec: RunSpec, resources: FlowResources = {}): Flo
     history: new Float64Array(HISTORY_CAPACITY * HISTORY_FIELDS),
     samples: [],
     scratch3: new Float64Array(3),
+    normalized: isNormalized(spec, model),
+    sigma: 0,
+    sigmaDenominator: 0,
+    sigmaRatio: 0,
   } as unknown as FlowRun;
   rebuildDerived(run);
+  s.recentreS = 1;
+  s.recentreCenterBefore = run.center;
+  s.recentreEnergyBefore = run.energy;
+  if (run.normalized) {
+    // The normalized flow starts from X = 0 (numerics.md §1): h₀ → h₀∘γ_s, X_h(h₀∘γ_s) = 0
+    // on this grid. Throws RecentreError when no dilation centres the data.
+    const source = start.profile
+      ? profileSource(start.profile)
+      : functionSource((x) => initialValue(spec.domain, spec.initial, x));
+    const res = recentreOnGrid(run.op, source, run.h, model.sphereArea);
+    s.recentreS = res.s;
+    s.recentreCenterBefore = res.centerBefore;
+    refreshDiagnostics(run);
+  }
+  s.recentreEnergyAfter = run.energy;
+  s.sigmaInitial = run.sigma;
   s.energyInitial = run.energy;
   s.gradMaxInitial = run.gradMax;
   s.dt = initialStep(run);
@@ -261,6 +346,8 @@ export function createFlowRun(spec: RunSpec, resources: FlowResources = {}): Flo
     setOutcome(run, 'numerics-failed', 'non-finite');
   } else if (run.tension <= spec.stop.tension) {
     setOutcome(run, 'converged', 'tension');
+  } else if (run.normalized && run.sigmaRatio < ENGINE_SETTINGS.degenerateRatio) {
+    setOutcome(run, 'degenerate', 'sigma-denominator');
   }
   return run;
 }
@@ -290,14 +377,23 @@ export function restoreFlowRun(
     history,
     samples: [],
     scratch3: new Float64Array(3),
+    normalized: isNormalized(spec, model),
+    sigma: 0,
+    sigmaDenominator: 0,
+    sigmaRatio: 0,
   } as unknown as FlowRun;
   rebuildDerived(run);
   return run;
 }
 
+/** The normalized flow needs σ only on the whole sphere: under reflection symmetry X ≡ 0 and σ ≡ 0 (numerics.md §1). */
+function isNormalized(spec: RunSpec, model: FlowModel): boolean {
+  return spec.flow === 'normalized' && model.domain === 'sphere' && model.symmetry === 'none';
+}
+
 function initialStep(run: FlowRun): number {
   let fmax = 0;
-  for (let i = 0; i < run.tau.length; i++) fmax = Math.max(fmax, Math.abs(run.tau[i]!));
+  for (let i = 0; i < run.velocity.length; i++) fmax = Math.max(fmax, Math.abs(run.velocity[i]!));
   const tol = run.spec.time.tolerance;
   const guess = fmax > 0 ? (0.1 * Math.cbrt(tol)) / fmax : run.spec.time.maxStep;
   return Math.min(run.spec.time.maxStep, guess, run.spec.time.tMax);
@@ -346,7 +442,8 @@ export function runDiagnostics(run: FlowRun): DiagnosticSample {
     gradMaxAt: run.op.rMid[run.gradMaxCell]!,
     lambda: 1 / run.gradMax,
     center: sphere ? run.center : null,
-    sigma: sphere ? 0 : null,
+    sigma: sphere ? run.sigma : null,
+    sigmaDenominator: run.normalized ? run.sigmaDenominator : null,
     points: run.r.length,
     newtonIterations: run.s.newtonIterations,
     rejectedSteps: run.s.rejectedSteps,
@@ -460,7 +557,8 @@ function stepOnce(run: FlowRun): boolean {
     const last = dt >= remaining;
     if (last) dt = remaining;
     const ws = run.ws;
-    const ok = ws.attempt(run.h, run.tau, dt, tol);
+    ws.sigma = run.sigma;
+    const ok = ws.attempt(run.h, run.velocity, dt, tol);
     const error = ws.lastError;
     s.newtonIterations += ws.lastIterations;
     s.pointIterations += ws.lastIterations * (run.op.cells - 1);
@@ -498,7 +596,8 @@ function afterStep(run: FlowRun, reachedEnd: boolean): void {
   }
   maybeRefine(run);
   recordHistory(run, false);
-  if (run.tension <= spec.stop.tension) {
+  if (run.normalized && run.sigmaRatio < ENGINE_SETTINGS.degenerateRatio) setOutcome(run, 'degenerate', 'sigma-denominator');
+  else if (run.tension <= spec.stop.tension) {
     const concentrated =
       run.gradMax >= ENGINE_SETTINGS.concentrationGrowth * s.gradMaxInitial && atPole(run);
     if (concentrated) setOutcome(run, 'blowup', 'concentration');

@@ -29,6 +29,13 @@ export interface FlowSummary {
     TUncertainty: number | null;
     exponentUncertainty: number | null;
   } | null;
+  /**
+   * Normalized flow only (numerics.md §1): the re-centring h₀ → h₀∘γ_s that made X = 0
+   * (s = 1 when X(h₀) = 0, e.g. under reflection symmetry) and the energies before and after.
+   */
+  recentre?: { s: number; centerBefore: number; energyBefore: number; energyAfter: number };
+  /** Normalized flow only: σ at t = 0 (0 under reflection symmetry). */
+  sigmaInitial?: number;
 }
 
 /** Full blow-up evidence from the run's history (any time; the summary attaches it to `blowup` outcomes). */
@@ -70,7 +77,7 @@ export function summarizeFlowRun(run: FlowRun, cpuSeconds = 0): FlowSummary {
       exponentUncertainty: e.exponentUncertainty,
     };
   }
-  return {
+  const summary: FlowSummary = {
     outcome,
     reason,
     tFinal: runTime(run),
@@ -85,4 +92,15 @@ export function summarizeFlowRun(run: FlowRun, cpuSeconds = 0): FlowSummary {
     cpuSeconds,
     blowup,
   };
+  if (run.spec.flow === 'normalized') {
+    const s = run.s;
+    summary.recentre = {
+      s: s.recentreS,
+      centerBefore: s.recentreCenterBefore,
+      energyBefore: s.recentreEnergyBefore,
+      energyAfter: s.recentreEnergyAfter,
+    };
+    summary.sigmaInitial = s.sigmaInitial;
+  }
+  return summary;
 }

@@ -143,13 +143,25 @@ describe('uploaded target profiles (numerics.md §1, target kind "profile")', ()
   it('checkpoints of format version 1 (no knots) are still read', () => {
     const run = createFlowRun(ellipsoidSpec(41, { time: { tMax: 1 } }));
     advanceFlowRun(run, { maxSteps: 5 });
-    const v1 = serializeCheckpoint(run);
-    // A version-1 buffer of a run without a profile target differs only in the version field (docs/checkpoint-format.md).
+    const v3 = serializeCheckpoint(run);
+    // A version-1 buffer of a run without a profile target differs from version 3 only in the version field and
+    // the 5 scalars version 3 added after the first 26 (docs/checkpoint-format.md).
+    const v3view = new DataView(v3.buffer);
+    const scalarsAt = 32 + Math.ceil(v3view.getUint32(16, true) / 8) * 8;
+    const cut = scalarsAt + 8 * 26;
+    const v1 = new Uint8Array(v3.length - 40);
+    v1.set(v3.subarray(0, cut));
+    v1.set(v3.subarray(cut + 40, v3.length - 8), cut);
     const view = new DataView(v1.buffer);
     view.setUint32(8, 1, true);
+    view.setUint32(20, 26, true);
+    view.setUint32(v1.length - 8, v1.length - 8, true);
     view.setUint32(v1.length - 4, crc32(v1, 0, v1.length - 8), true);
     const back = deserializeCheckpoint(v1);
     expect(bits(back.h)).toBe(bits(run.h));
+    expect(back.s.step).toBe(run.s.step);
+    expect(back.s.recentreS).toBe(1);
+    expect(back.s.sigmaInitial).toBe(0);
   });
 
   it('a profile target without its upload, or with a broken table, is refused with the problem named', () => {

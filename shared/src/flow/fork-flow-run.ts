@@ -11,6 +11,7 @@ import {
 import { buildNodes, cellCount, initialGridParams, type GridParams } from './graded-grid';
 import type { FlowStartState } from './flow-resources';
 import { ProfileTarget } from './profile-target';
+import { RecentreError } from './mobius-dilations';
 
 /** Error for a fork whose spec cannot continue the parent's state; the message says which field. */
 export class ForkError extends Error {
@@ -30,7 +31,9 @@ export class ForkError extends Error {
  * What may change: `grid` (finer, coarser, another cap), `time` (t_max, largest step,
  * tolerance), `stop`, `symmetry` (reflection → none always; none → reflection is
  * refused, the parent's profile is not exactly symmetric), `flow` (standard →
- * normalized once the engine supports it; until then a clear error), and `initial`,
+ * normalized: the carried profile is re-centred, h∘γ_s with X_h = 0 on the fork's grid,
+ * as a new normalized run's initial data; the `recentre` record of the summary says
+ * by which s), and `initial`,
  * which is ignored: the state comes from the parent.
  * What must not change (a {@link ForkError} names it): the domain kind, its dimension,
  * the ball's boundary angle (h(1) = α is part of the state) and the target.
@@ -82,7 +85,13 @@ export function forkFlowRun(parent: FlowRun, spec: RunSpec): FlowRun {
     throw new ForkError(`cannot fork: ${message}`);
   }
   const start: FlowStartState = { profile: flowProfile(parent), symmetric, target, grid: forkGrid(parent, spec, model) };
-  const run = createFlowRun(spec, { start });
+  let run: FlowRun;
+  try {
+    run = createFlowRun(spec, { start });
+  } catch (e) {
+    if (e instanceof RecentreError) throw new ForkError(`cannot fork into flow "normalized": ${e.message}`);
+    throw e;
+  }
   const s = run.s;
   const p = parent.s;
   s.tHi = p.tHi;

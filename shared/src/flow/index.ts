@@ -15,6 +15,8 @@
 //   profile-target    an uploaded target table as cubic splines (natural f, clamped z)
 //   flow-resources    uploaded tables handed in: createFlowRun(spec, { initialProfile, targetProfile })
 //   fork-flow-run     forkFlowRun(parent, spec): the parent's state on the fork's spec
+//   mobius-dilations  γ_s, center X and its derivative L (operator), re-centring (Brent), F(s) = D(h∘γ_s)
+//   dilation-profile  F(s) of a run's state (any checkpoint), its maximiser s* and the gap F(s*) − F(1)
 //
 // How the worker drives a run (all functions are pure computation, no clocks, no I/O):
 //
@@ -36,9 +38,12 @@
 //   runDiagnostics(run);                                  // the current §3 sample
 //   initialProfile(spec, 200);                            // cheap h₀ preview for the browser
 //
-// The Möbius-normalized flow (a later issue) slots in as a drift term σ·sin r·h_r in
-// the operator and one scalar unknown σ per implicit stage (bordered tridiagonal
-// system: two Thomas sweeps and a scalar Schur complement); the run state gains σ.
+// The Möbius-normalized flow (`flow: "normalized"`, sphere): createFlowRun re-centres h₀
+// (X = 0, RecentreError if impossible); the drift σ·sin r·h_r enters every implicit stage
+// with σ as one more unknown fixed by X_h(stage) = 0 (bordered tridiagonal system: two
+// Thomas solves and a scalar Schur complement per Newton iteration, tr-bdf2-stepper);
+// samples carry σ and its denominator; outcome `degenerate` when the denominator
+// falls below ENGINE_SETTINGS.degenerateRatio of its scale.
 export * from './target-geometry';
 export * from './flow-model';
 export * from './graded-grid';

@@ -16,9 +16,17 @@ import { solveTridiagonal } from './tridiagonal';
  *                       C = (−3γ² + 4γ − 2)/(12(2 − γ)),  filtered by (M + θH) ê = M e
  *                       (and filtered a second time before a rejection).
  *
- * A later drift term (Möbius-normalized flow, σ(t)·sin r·h_r) adds a transport
- * part to G and one scalar unknown σ: the stage system becomes bordered
- * tridiagonal, solved by two Thomas sweeps and a Schur complement in σ.
+ * Möbius-normalized flow (numerics.md §1), `normalized = true`: the flow is
+ * M ḣ = −G + σ M w, w = sin r·h_r (DiscreteOperator.drift), with the scalar σ an
+ * unknown of every implicit stage, fixed by the constraint X_h(stage value) = 0
+ * (the center stays at round-off; its derivative form L·ḣ = 0 is the σ of §1).
+ * The stage system for (z, σ) is bordered tridiagonal:
+ *   [ J   b ] [δ ]   [R]     R_i = M_i(z_i − rhs_i) + θG_i − θσ M_i w_i,   b = ∂R/∂σ = −θ M w,
+ *   [ Lᵀ  0 ] [δσ] = [C],    C = X_h(z),  L = ∂X_h/∂z,
+ * solved per Newton iteration with two Thomas solves (J x = R, J y = b) and the
+ * scalar Schur complement: δσ = (L·x − C)/(L·y), δ = x − δσ·y (block elimination
+ * of a bordered system, as in Sherman–Morrison; O(N)). F_n passed to `attempt` is
+ * then τ + σ_n w with the instantaneous σ_n = −L·τ/L·w.
  */
 export const TR_GAMMA = 2 - Math.SQRT2;
 export const TR_D = TR_GAMMA / 2;
@@ -56,14 +64,27 @@ export class StepperWorkspace {
   readonly jLower: Float64Array;
   readonly delta: Float64Array;
   readonly work: Float64Array;
+  /** Normalized flow only (length 0 otherwise): L = ∂X_h/∂z, the drift w, the border column b and its solve. */
+  readonly cgrad: Float64Array;
+  readonly wdrift: Float64Array;
+  readonly border: Float64Array;
+  /** σ of the current stage: set `sigma` to the starting guess before {@link attempt}; after it, σ of the BDF2 stage. */
+  sigma = 0;
   /** Result of the last {@link attempt} (fields, not a returned object: no allocation per step). */
   lastOk = false;
   /** Scaled error estimate of the last attempt (accept when ≤ 1); Infinity when Newton failed. */
   lastError = Infinity;
   /** Newton iterations of the last attempt (both stages). */
   lastIterations = 0;
-  constructor(readonly op: DiscreteOperator) {
+  constructor(
+    readonly op: DiscreteOperator,
+    readonly normalized = false,
+  ) {
     const n = op.cells + 1;
+    const nn = normalized ? n : 0;
+    this.cgrad = new Float64Array(nn);
+    this.wdrift = new Float64Array(nn);
+    this.border = new Float64Array(nn);
     this.z = new Float64Array(n);
     this.y1 = new Float64Array(n);
     this.rhs1 = new Float64Array(n);
@@ -85,6 +106,7 @@ export class StepperWorkspace {
    * on entry (and the Dirichlet values at both ends). Returns iterations used, or −1.
    */
   private newton(rhs: Float64Array, z: Float64Array, theta: number, tol: number): number {
+    if (this.normalized) return this.newtonBordered(rhs, z, theta, tol);
     const op = this.op;
     const n = op.cells;
     const cm = op.cellMass;
@@ -120,6 +142,70 @@ export class StepperWorkspace {
   }
 
   /**
+   * Newton for the bordered stage system of the normalized flow (see the file comment):
+   * unknowns z (interior) and σ (this.sigma, guess on entry). Returns iterations used, or −1.
+   */
+  private newtonBordered(rhs: Float64Array, z: Float64Array, theta: number, tol: number): number {
+    const op = this.op;
+    const n = op.cells;
+    const cm = op.cellMass;
+    const cs = op.cellMassSlope;
+    const wl = op.driftLower;
+    const wd = op.driftDiag;
+    const wu = op.driftUpper;
+    const { grad, hDiag, hUpper, jDiag, jUpper, jLower, delta, work, cgrad, wdrift, border } = this;
+    let sigma = this.sigma;
+    let previous = Infinity;
+    for (let it = 1; it <= NEWTON_MAX_ITERATIONS; it++) {
+      op.assemble(z, grad, hDiag, hUpper);
+      const C = op.centerGradient(z, cgrad);
+      op.drift(z, wdrift);
+      const ts = theta * sigma;
+      let wmax = 0;
+      for (let i = 1; i < n; i++) {
+        const diff = z[i]! - rhs[i]!;
+        const sl = cs[i - 1]!;
+        const sr = cs[i]!;
+        const mass = cm[i - 1]! + cm[i]!;
+        const w = wdrift[i]!;
+        if (Math.abs(w) > wmax) wmax = Math.abs(w);
+        delta[i] = mass * diff + theta * grad[i]! - ts * mass * w;
+        jDiag[i] = mass + (sl + sr) * diff + theta * hDiag[i]! - ts * ((sl + sr) * w + mass * wd[i]!);
+        jLower[i - 1] = sl * diff + theta * hUpper[i - 1]! - ts * (sl * w + mass * wl[i]!);
+        jUpper[i] = sr * diff + theta * hUpper[i]! - ts * (sr * w + mass * wu[i]!);
+        border[i] = -theta * mass * w;
+      }
+      // Two Thomas solves with the same matrix: x = J⁻¹R (in delta), y = J⁻¹b (in border).
+      if (!solveTridiagonal(1, n - 1, jLower, jDiag, jUpper, delta, work)) return -1;
+      if (!solveTridiagonal(1, n - 1, jLower, jDiag, jUpper, border, work)) return -1;
+      let lx = 0;
+      let ly = 0;
+      for (let i = 1; i < n; i++) {
+        lx += cgrad[i]! * delta[i]!;
+        ly += cgrad[i]! * border[i]!;
+      }
+      const dSigma = (lx - C) / ly;
+      if (!Number.isFinite(dSigma)) return -1;
+      let size = 0;
+      for (let i = 1; i < n; i++) {
+        const di = delta[i]! - dSigma * border[i]!;
+        z[i] = z[i]! - di;
+        const ad = Math.abs(di);
+        if (ad > size) size = ad;
+      }
+      sigma -= dSigma;
+      this.sigma = sigma;
+      // A change of σ moves the stage by θ·δσ·w: count it in the step size of Newton.
+      size = Math.max(size, Math.abs(theta * dSigma) * wmax);
+      if (!(size < Infinity)) return -1;
+      if (size <= tol) return it;
+      if (it >= 2 && size > NEWTON_MIN_CONTRACTION * previous) return -1;
+      previous = size;
+    }
+    return -1;
+  }
+
+  /**
    * Attempts one TR-BDF2 step of size dt from y with F(y) = fn given (exact discrete
    * tension at y). On success y1 holds the new solution; y and fn are not touched.
    * Returns whether Newton converged; the error estimate is in {@link lastError}.
@@ -131,6 +217,8 @@ export class StepperWorkspace {
     const { z, y1, rhs1, rhs2, fg, f1, delta, work, jDiag, jUpper, jLower } = this;
     const theta = TR_D * dt;
     const newtonTol = 1e-3 * tolerance;
+    // σ guess (normalized flow): the caller's, for both predictors of the first stage.
+    const sigma0 = this.sigma;
     z[0] = y[0]!;
     z[n] = y[n]!;
     y1[0] = y[0]!;
@@ -147,10 +235,12 @@ export class StepperWorkspace {
     if (it1 < 0) {
       spent += NEWTON_MAX_ITERATIONS;
       for (let i = 1; i < n; i++) z[i] = y[i]!;
+      this.sigma = sigma0;
       it1 = this.newton(rhs1, z, theta, newtonTol);
       if (it1 < 0) return this.result(false, Infinity, spent + NEWTON_MAX_ITERATIONS);
     }
     it1 += spent;
+    const sigma1 = this.sigma;
     for (let i = 1; i < n; i++) {
       fg[i] = (z[i]! - rhs1[i]!) / theta;
       rhs2[i] = W1 * z[i]! - W0 * y[i]!;
@@ -159,6 +249,7 @@ export class StepperWorkspace {
     let it2 = this.newton(rhs2, y1, theta, newtonTol);
     if (it2 < 0) {
       for (let i = 1; i < n; i++) y1[i] = z[i]!;
+      this.sigma = sigma1;
       it2 = this.newton(rhs2, y1, theta, newtonTol);
       if (it2 < 0) return this.result(false, Infinity, it1 + 2 * NEWTON_MAX_ITERATIONS);
       it2 += NEWTON_MAX_ITERATIONS;
