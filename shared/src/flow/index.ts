@@ -63,3 +63,4 @@ export * from './flow-resources';
 export * from './fork-flow-run';
 export * from './mobius-dilations';
 export * from './dilation-profile';
+export * from './dilation-jump';

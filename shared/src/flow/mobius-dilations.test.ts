@@ -4,6 +4,8 @@ import { createFlowRun } from './flow-run';
 import { dilate } from './initial-data';
 import { dilationProfileMaximumOfRun, dilationProfileOfRun } from './dilation-profile';
 import { functionSource, RecentreError, recentreOnGrid, undilate } from './mobius-dilations';
+import { jumpToDilationMaximum } from './dilation-jump';
+import { ForkError } from './fork-flow-run';
 
 function sphereRun(dim: number, initial: RunSpecInput['initial'], points = 400) {
   return createFlowRun(
@@ -128,5 +130,28 @@ describe('Möbius energy profile F(s) = D(h∘γ_s) (numerics.md §1, §4.3)', (
     expect(Math.abs(max.energyAtMax - 3 * Math.PI ** 2)).toBeLessThan(1e-3);
     expect(Math.abs(max.gap - (3 * Math.PI ** 2 - F1))).toBeLessThan(2e-3);
     console.info(`γ_1/2 of S³: s* = ${max.sStar}, F(s*) = ${max.energyAtMax}, gap = ${max.gap} (exact ${3 * Math.PI ** 2 - F1})`);
+  });
+});
+
+describe('jump to the maximiser (experimental)', () => {
+  it('from the dilated identity γ_{1/2} of S³ the jump lands on the identity, with energy 3π²', () => {
+    // Source: F(s) = 12π² s/(1+s)² for the identity of S³ (derived, numerics.md §4.3): γ_{1/2}∘γ_{s*} = id at s* = 2.
+    const spec = parseRunSpec({
+      domain: { kind: 'sphere', dim: 3 },
+      target: { kind: 'sphere' },
+      initial: { kind: 'dilated', s: 0.5 },
+      symmetry: 'none',
+      grid: { points: 400 },
+      time: { tMax: 1 },
+    });
+    const parent = createFlowRun(spec);
+    const jump = jumpToDilationMaximum(parent, spec);
+    expect(Math.abs(jump.sStar - 2)).toBeLessThan(2e-3);
+    let dist = 0;
+    for (let i = 0; i < jump.run.r.length; i++) dist = Math.max(dist, Math.abs(jump.run.h[i]! - jump.run.r[i]!));
+    expect(dist).toBeLessThan(2e-3);
+    expect(Math.abs(jump.run.energy - 3 * Math.PI ** 2)).toBeLessThan(2e-3);
+    expect(() => jumpToDilationMaximum(parent, { ...spec, flow: 'normalized' })).toThrow(ForkError);
+    console.info(`jump from γ_1/2: s* = ${jump.sStar}, max|h − r| = ${dist.toExponential(2)}, D = ${jump.run.energy}`);
   });
 });
