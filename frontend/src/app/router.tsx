@@ -12,6 +12,8 @@ const router = createBrowserRouter([
     hydrateFallbackElement: <FullPageSpinner />,
     children: [
       { path: paths.signIn.path, lazy: () => import('./routes/sign-in') },
+      { path: paths.invitationAccept.path, lazy: () => import('./routes/invitation-accept') },
+      { path: paths.resetPassword.path, lazy: () => import('./routes/reset-password') },
       {
         // Signed-in area: checks the session and draws the shell around the pages.
         lazy: () => import('./routes/app-shell'),
@@ -31,8 +33,10 @@ const router = createBrowserRouter([
               { path: paths.labWorkers.path, lazy: () => import('./routes/lab-workers') },
               { path: paths.labUsage.path, lazy: () => import('./routes/lab-usage') },
               { path: paths.labAudit.path, lazy: () => import('./routes/lab-audit') },
+              { path: paths.labOutbox.path, lazy: () => import('./routes/outbox') },
               { path: paths.candidates.path, lazy: () => import('./routes/candidates') },
               { path: paths.candidate.path, lazy: () => import('./routes/candidate') },
+              { path: paths.account.path, lazy: () => import('./routes/account') },
               { path: '*', lazy: () => import('./routes/not-found') },
             ],
           },

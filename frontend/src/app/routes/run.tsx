@@ -22,6 +22,7 @@ import { RunMetricsCharts } from '@/features/runs/components/run-metrics-charts'
 import { runLabel } from '@/features/runs/components/runs-list';
 import { SpecPanel } from '@/features/runs/components/spec-panel';
 import { useStudy } from '@/features/studies/api/get-studies';
+import { RunExports } from '@/features/uploads/components/run-exports';
 import { formatNumber, shortId } from '@/lib/format';
 import { getToken } from '@/lib/session';
 import { queryClient } from '../query-client';
@@ -164,6 +165,7 @@ function RunRoute() {
         <div className="page__side">
           <OutcomePanel run={r} />
           <SpecPanel spec={r.spec} />
+          <RunExports runId={r.id} checkpoints={checkpoints.data ?? []} />
         </div>
       </div>
       <ForkDialog

@@ -1,8 +1,8 @@
 import { Alert, App, Typography } from 'antd';
 import { useEffect, useState } from 'react';
-import { Navigate, useSearchParams } from 'react-router-dom';
+import { Link, Navigate, useSearchParams } from 'react-router-dom';
 import { KilnWordmark } from '@/components/kiln-mark';
-import { safeRedirectTarget } from '@/config/paths';
+import { paths, safeRedirectTarget } from '@/config/paths';
 import { SignInForm } from '@/features/auth/components/sign-in-form';
 import { useToken } from '@/features/auth/hooks/use-session';
 import { clearSessionEndReason, peekSessionEndReason } from '@/lib/session';
@@ -41,6 +41,9 @@ function SignInRoute() {
             <Alert className="sign-in__notice" type="info" showIcon title="You have signed out." />
           ) : null}
           <SignInForm onSignedIn={(name) => void message.success(`Signed in as ${name}.`)} />
+          <p style={{ marginTop: 16, textAlign: 'center' }}>
+            <Link to={paths.resetPassword.getHref()}>Forgot your password?</Link>
+          </p>
         </div>
       </main>
     </div>

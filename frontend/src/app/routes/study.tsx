@@ -5,6 +5,7 @@ import { PageHeader } from '@/components/page-header';
 import { QueryError } from '@/components/query-error';
 import { paths } from '@/config/paths';
 import { useMe } from '@/features/auth/api/get-me';
+import { InvitePanel } from '@/features/invitations/components/invite-panel';
 import { useRuns } from '@/features/runs/api/get-runs';
 import { RunsList } from '@/features/runs/components/runs-list';
 import { studyQueryOptions, useStudy } from '@/features/studies/api/get-studies';
@@ -59,6 +60,7 @@ function StudyRoute() {
         </div>
         <div className="page__side">
           <StudyMembers study={s} />
+          {s.myRole === 'owner' || me.data?.role === Role.Admin ? <InvitePanel studyId={s.id} studyName={s.name} /> : null}
           {s.myRole === 'viewer' ? (
             <Card className="panel" size="small">
               <p className="muted">You can look at this study's runs; its owner can make you a member if you need to fork or resume.</p>

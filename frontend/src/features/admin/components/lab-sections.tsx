@@ -1,6 +1,6 @@
 import { NavLink } from 'react-router-dom';
 import './lab-admin.css';
-import { IconClock, IconLab, IconOverview, IconWorker } from '@/components/icons';
+import { IconClock, IconLab, IconOverview, IconQueue, IconWorker } from '@/components/icons';
 import { paths } from '@/config/paths';
 
 /** A share of a whole: the quota icon, drawn like Kiln's other line icons. */
@@ -19,6 +19,7 @@ const sections = [
   { href: paths.labWorkers.getHref(), label: 'Workers', hint: 'hosts and heartbeats', icon: <IconWorker />, end: false },
   { href: paths.labUsage.getHref(), label: 'Usage', hint: 'CPU-hours by month', icon: <IconOverview />, end: false },
   { href: paths.labAudit.getHref(), label: 'Audit log', hint: 'who changed what', icon: <IconClock />, end: false },
+  { href: paths.labOutbox.getHref(), label: 'Outbox', hint: 'mail, local mode', icon: <IconQueue />, end: false },
 ];
 
 /** The lab admin's sections, one line under the page title. */
