@@ -105,6 +105,40 @@ function throughput(points: number): { steps: number; newton: number; pointIts: 
   return { steps, newton, pointIts, seconds };
 }
 
+/**
+ * Cost of a step of the normalized flow relative to the standard one (issue 4): the same
+ * workload (S³ → ellipsoid b = 1.5, whole sphere, h₀ = r + 0.3 sin r, re-centred for the
+ * normalized flow), the same fixed small steps, fresh runs until `seconds` CPU seconds.
+ */
+function flowCost(flow: 'standard' | 'normalized', points: number, seconds: number) {
+  const make = () =>
+    createFlowRun(
+      parseRunSpec({
+        domain: { kind: 'sphere', dim: 3 },
+        target: { kind: 'ellipsoid', axisRatio: 1.5 },
+        initial: { kind: 'perturbed', amplitude: 0.3, mode: 1 },
+        symmetry: 'none',
+        flow,
+        grid: { points },
+        time: { tMax: 1000, maxStep: 1e-4, tolerance: 1e-8 },
+        stop: { tension: 1e-14 },
+      }),
+    );
+  advanceFlowRun(make(), { maxSteps: 50 }); // warm-up (JIT)
+  let steps = 0;
+  let newton = 0;
+  let used = 0;
+  while (used < seconds) {
+    const run = make();
+    const t0 = cpu();
+    advanceFlowRun(run, { maxSteps: 2000 });
+    used += cpu() - t0;
+    steps += run.s.step;
+    newton += run.s.newtonIterations;
+  }
+  return { steps, newton, seconds: used };
+}
+
 function main(): void {
   const i = process.argv.indexOf('--case');
   if (i >= 0) {
@@ -118,6 +152,19 @@ function main(): void {
     const r = throughput(n);
     console.log(
       `| ${n} | ${r.steps} | ${r.newton} | ${r.pointIts.toExponential(2)} | ${r.seconds.toFixed(2)} | ${(r.pointIts / r.seconds / 1e6).toFixed(1)} | ${((r.seconds / r.pointIts) * 1e9).toFixed(1)} |`,
+    );
+  }
+  console.log('\n## Normalized flow: cost of a step relative to the standard flow\n');
+  console.log('| N | flow | steps | Newton its | CPU s | µs per step | µs per Newton iteration | step cost ratio |');
+  console.log('|---:|---|---:|---:|---:|---:|---:|---:|');
+  for (const n of [200, 1000]) {
+    const a = flowCost('standard', n, 3);
+    const b = flowCost('normalized', n, 3);
+    const perStep = (r: typeof a) => (r.seconds / r.steps) * 1e6;
+    const perIt = (r: typeof a) => (r.seconds / r.newton) * 1e6;
+    console.log(`| ${n} | standard | ${a.steps} | ${a.newton} | ${a.seconds.toFixed(2)} | ${perStep(a).toFixed(1)} | ${perIt(a).toFixed(2)} | 1 |`);
+    console.log(
+      `| ${n} | normalized | ${b.steps} | ${b.newton} | ${b.seconds.toFixed(2)} | ${perStep(b).toFixed(1)} | ${perIt(b).toFixed(2)} | ${(perStep(b) / perStep(a)).toFixed(2)} |`,
     );
   }
   console.log('\n## Time to outcome (each run in its own process)\n');
