@@ -386,6 +386,31 @@ export function restoreFlowRun(
   return run;
 }
 
+/**
+ * Normalized flow after a regrid: the monotone remap moves X_h off zero by the
+ * interpolation error; a few Newton steps along the dilation generator,
+ * h ← h − (X_h/L·w)·w, put it back to round-off (the next implicit stage would do it
+ * anyway, but the samples and the energy bookkeeping of the regrid then see X = 0).
+ */
+export function recentreAfterRemap(run: FlowRun): void {
+  if (!run.normalized) return;
+  const op = run.op;
+  const L = run.ws.cgrad;
+  const w = run.ws.wdrift;
+  const n = op.cells;
+  for (let it = 0; it < 3; it++) {
+    const X = op.centerGradient(run.h, L);
+    op.drift(run.h, w);
+    let lw = 0;
+    for (let i = 1; i < n; i++) lw += L[i]! * w[i]!;
+    const shift = -X / lw;
+    if (!Number.isFinite(shift) || shift === 0) break;
+    for (let i = 1; i < n; i++) run.h[i] = run.h[i]! + shift * w[i]!;
+    if (Math.abs(shift) < 1e-15) break;
+  }
+  refreshDiagnostics(run);
+}
+
 /** The normalized flow needs σ only on the whole sphere: under reflection symmetry X ≡ 0 and σ ≡ 0 (numerics.md §1). */
 function isNormalized(spec: RunSpec, model: FlowModel): boolean {
   return spec.flow === 'normalized' && model.domain === 'sphere' && model.symmetry === 'none';

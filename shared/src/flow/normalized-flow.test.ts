@@ -163,4 +163,31 @@ describe('Möbius-normalized flow (numerics.md §1, §4.7)', () => {
     advanceFlowRun(fork);
     expect(summarizeFlowRun(fork).outcome).toBe('converged');
   });
+
+  it('through refinement toward a pole X stays at round-off (S³ → ellipsoid b = 4, beyond the existence threshold)', () => {
+    // Source: numerics.md §4.6 (no co-rotational harmonic map into the ellipsoid for b far above b* ≈ 2.83 when
+    // m = 3, so a singularity forms); X = 0 is the constraint of the normalized flow (numerics.md §1).
+    const run = createFlowRun(
+      parseRunSpec({
+        domain: { kind: 'sphere', dim: 3 },
+        target: { kind: 'ellipsoid', axisRatio: 4 },
+        flow: 'normalized',
+        symmetry: 'none',
+        initial: { kind: 'perturbed', amplitude: 0.1, mode: 1 },
+        grid: { points: 200 },
+        time: { tMax: 50, maxStep: 0.1 },
+        stop: { gradientBound: 1e5 },
+      }),
+    );
+    let worstX = Math.abs(run.center);
+    stepThrough(run, () => (worstX = Math.max(worstX, Math.abs(run.center))));
+    const s = summarizeFlowRun(run);
+    expect(s.outcome).toBe('blowup');
+    expect(run.s.regrids).toBeGreaterThan(3);
+    expect(worstX).toBeLessThan(1e-12 * s.energyInitial);
+    console.info(
+      `normalized S³ → ellipsoid b = 4: ${s.outcome} (${s.reason}) at t = ${s.tFinal.toFixed(4)}, ${run.s.regrids} regrids, ` +
+        `max|X| = ${worstX.toExponential(2)}, σ = ${run.sigma.toExponential(3)}, denominator ratio ${run.sigmaRatio.toFixed(3)}`,
+    );
+  });
 });

@@ -1,5 +1,5 @@
 import { buildNodes, cellCount, type GridParams } from './graded-grid';
-import { gridParamsOf, rebuildDerived, type FlowRun } from './flow-run';
+import { gridParamsOf, rebuildDerived, recentreAfterRemap, type FlowRun } from './flow-run';
 import { remapMonotone } from './monotone-remap';
 
 /**
@@ -55,5 +55,6 @@ export function maybeRefine(run: FlowRun): void {
   else run.s.deltaRight = newDelta;
   run.s.regrids += 1;
   rebuildDerived(run);
+  recentreAfterRemap(run);
   run.s.regridEnergyChange += run.energy - before;
 }
