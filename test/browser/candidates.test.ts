@@ -1,3 +1,4 @@
+import { readFileSync } from 'node:fs';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { launchBrowser, saveScreenshot as saveFullPage } from '../support/browser';
@@ -154,6 +155,49 @@ describe('blow-up candidates in the browser', () => {
     await finerLink.click();
     await page.waitForURL(new RegExp(`/runs/${finer.finer_run_id}$`));
     await page.getByTestId('parent-link').waitFor();
+    await page.context().close();
+  });
+
+  it('a member exports the run\'s data, uploads its checkpoint file and resumes it as a new run in the study', async () => {
+    const page = await signedInPage(demo.researcher);
+    await page.goto(`${api.baseUrl}/runs/${runId}`);
+    const exports = page.locator('.ant-card', { hasText: 'for your own analysis' });
+    await exports.getByRole('button', { name: 'Profile (.npy)' }).waitFor({ timeout: 15_000 });
+
+    const download = async (button: string) => {
+      const [file] = await Promise.all([page.waitForEvent('download'), exports.getByRole('button', { name: button }).click()]);
+      const path = await file.path();
+      return { name: file.suggestedFilename(), path, bytes: readFileSync(path) };
+    };
+    const metrics = await download('Metrics (CSV)');
+    expect(metrics.name).toMatch(/-metrics\.csv$/);
+    expect(metrics.bytes.toString('utf8').split('\n')[0]).toContain('gradMax');
+    const npy = await download('Profile (.npy)');
+    expect(npy.bytes.subarray(0, 6).toString('latin1')).toBe('\x93NUMPY');
+    const checkpoint = await download('Checkpoint file');
+    expect(checkpoint.name).toMatch(/\.kcp$/);
+    await saveScreenshot(page, 'run-exports');
+
+    // Brought back as an upload and resumed in the study, as a collaborator elsewhere would.
+    await page.locator('.shell__user').getByRole('link', { name: demo.researcher.name }).click();
+    await page.getByRole('heading', { name: 'Your account' }).waitFor();
+    await page.getByLabel('Kind of upload').click();
+    await page.locator('.ant-select-item-option', { hasText: 'Checkpoint file' }).click();
+    await page.getByLabel('File to upload').setInputFiles({ name: checkpoint.name, mimeType: 'application/octet-stream', buffer: checkpoint.bytes });
+    await page.getByRole('button', { name: 'Upload', exact: true }).click();
+    await page.getByText(`${checkpoint.name} uploaded and checked`).first().waitFor({ timeout: 15_000 });
+    const row = page.locator('.uploads-table tr', { hasText: checkpoint.name });
+    await row.getByRole('button', { name: 'Resume this checkpoint' }).click();
+    const resumed = row.getByRole('link');
+    await resumed.waitFor({ timeout: 15_000 });
+    await saveScreenshot(page, 'account-resumed-upload');
+    await resumed.click();
+    await page.waitForURL(/\/runs\/[0-9a-f-]{36}$/);
+    const newRunId = page.url().split('/').pop()!;
+    expect(newRunId).not.toBe(runId);
+    const stored = await database.db.selectFrom('runs').select(['study_id', 'owner_id']).where('id', '=', newRunId).executeTakeFirstOrThrow();
+    const researcher = await database.db.selectFrom('users').select('id').where('email', '=', demo.researcher.email).executeTakeFirstOrThrow();
+    expect(stored.owner_id).toBe(researcher.id);
     await page.context().close();
   });
 

@@ -183,6 +183,28 @@ describe('collaboration in the browser', () => {
     await Promise.all([admin, researcher].map((p) => p.context().close()));
   });
 
+  it('someone who already has an account is told to sign in, comes back to the link and joins the study', async () => {
+    const owner = await api.request('POST', '/api/auth/login', { body: { email: demo.postdoc.email, password: demo.postdoc.password } });
+    const privateStudy = (await api.request('GET', '/api/studies', { token: owner.body.accessToken })).body.find((s: { name: string }) => s.name.startsWith('Private'));
+    const sent = new Date(Date.now() - 1000);
+    const invite = await api.request('POST', `/api/studies/${privateStudy.id}/invitations`, { token: owner.body.accessToken, body: { email: demo.researcher.email, role: 'viewer' } });
+    expect(invite.status).toBe(201);
+    const { url } = await linkTo(demo.researcher.email, '/invitations/accept', sent);
+
+    const page = await newPage();
+    await page.goto(url);
+    await page.getByText(`You already have a Kiln account with ${demo.researcher.email}.`).waitFor();
+    await saveScreenshot(page, 'invitation-existing-account');
+    await page.getByRole('button', { name: 'Sign in to accept' }).click();
+    await page.getByLabel('E-mail').fill(demo.researcher.email);
+    await page.getByLabel('Password').fill(demo.researcher.password);
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await page.getByRole('button', { name: 'Accept and open the study' }).click();
+    await page.waitForURL(new RegExp(`/studies/${privateStudy.id}$`), { timeout: 15_000 });
+    await page.getByRole('heading', { name: 'Private: B³ blow-up thresholds' }).waitFor();
+    await page.context().close();
+  });
+
   it('"Forgot your password?" mails a link that sets a new password once', async () => {
     const page = await newPage();
     await page.goto(`${api.baseUrl}/sign-in`);

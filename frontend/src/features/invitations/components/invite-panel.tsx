@@ -120,8 +120,8 @@ export function InvitePanel({ studyId, studyName }: { studyId: string; studyName
           <Select
             aria-label="Role in this study"
             options={[
-              { value: 'member', label: 'Member: forks and resumes runs, records verdicts' },
-              { value: 'viewer', label: 'Viewer: can only look' },
+              { value: 'member', label: 'Member (forks, resumes, verdicts)' },
+              { value: 'viewer', label: 'Viewer (can only look)' },
             ]}
           />
         </Form.Item>
