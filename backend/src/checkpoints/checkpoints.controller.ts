@@ -1,7 +1,7 @@
 import { Body, Controller, Get, HttpCode, Param, Post, Res, StreamableFile } from '@nestjs/common';
 import type { Response } from 'express';
 import { ApiBearerAuth, ApiBody, ApiOperation, ApiTags } from '@nestjs/swagger';
-import { forkRequestSchema, idParamSchema, toNpy, type CheckpointProfile, type ForkRequest, type Run } from '@kiln/shared';
+import { forkRequestSchema, idParamSchema, toNpy, type CheckpointProfile, type DilationProfileView, type ForkRequest, type Run } from '@kiln/shared';
 import { CurrentUser } from '../auth/auth.decorators';
 import type { AuthenticatedUser } from '../auth/authenticated-user';
 import { csvLine } from '../common/csv';
@@ -54,6 +54,23 @@ export class CheckpointsController {
       disposition: `attachment; filename="kiln-checkpoint-${checkpointId}-profile.npy"`,
       length: bytes.byteLength,
     });
+  }
+
+  @Get(':id/dilation-profile')
+  @ApiOperation({ summary: 'The Möbius energy profile F(s) = D(h∘γ_s) of the state, its maximiser s* and the gap (sphere domain)' })
+  dilationProfile(@CurrentUser() user: AuthenticatedUser, @Param('id', id) checkpointId: string): Promise<DilationProfileView> {
+    return this.checkpoints.dilationProfile(user, checkpointId);
+  }
+
+  @Post(':id/jump-to-maximiser')
+  @ApiOperation({ summary: 'EXPERIMENTAL: a new run (recorded as a fork) starting from h∘γ_{s*}, the state moved to the maximiser of F(s)' })
+  @ApiBody({ schema: openApiSchema(forkRequestSchema) })
+  jump(
+    @CurrentUser() user: AuthenticatedUser,
+    @Param('id', id) checkpointId: string,
+    @Body(new ZodValidationPipe(forkRequestSchema)) body: ForkRequest,
+  ): Promise<Run> {
+    return this.checkpoints.jumpToMaximiser(user, checkpointId, body);
   }
 
   @Post(':id/resume')

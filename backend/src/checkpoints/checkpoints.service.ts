@@ -1,5 +1,6 @@
 import { HttpStatus, Inject, Injectable } from '@nestjs/common';
-import { ErrorCode, flowProfile, forkIncompatibility, runTime, safeParseRunSpec, type CheckpointProfile, type ForkRequest, type Run } from '@kiln/shared';
+import { createHash } from 'node:crypto';
+import { dilationProfileMaximumOfRun, ErrorCode, flowProfile, forkIncompatibility, jumpToDilationMaximum, serializeCheckpoint, type DilationProfileView, runTime, safeParseRunSpec, type CheckpointProfile, type ForkRequest, type Run } from '@kiln/shared';
 import type { AuthenticatedUser } from '../auth/authenticated-user';
 import { ApiException, badInput, notFound } from '../common/api-error';
 import { DB, type Db } from '../database/database.module';
@@ -48,6 +49,72 @@ export class CheckpointsService {
     const run = await loadCheckpointState(this.db, id);
     const { r, h } = flowProfile(run);
     return { r: Array.from(r), h: Array.from(h), t: runTime(run), step: run.s.step };
+  }
+
+  /** F(s) = D(h∘γ_s) of the checkpoint's state on a log grid, its maximiser s* and the gap (sphere domain). */
+  async dilationProfile(user: AuthenticatedUser, id: string): Promise<DilationProfileView> {
+    const { run } = await this.find(user, id);
+    if (run.spec.domain.kind !== 'sphere') throw badInput('dilations act on the sphere domain only; this run is on the ball');
+    const state = await loadCheckpointState(this.db, id);
+    const max = dilationProfileMaximumOfRun(state);
+    return { profile: max.samples, sStar: max.sStar, energyAtMax: max.energyAtMax, gap: max.gap };
+  }
+
+  /**
+   * EXPERIMENTAL: a new run (a fork of this checkpoint) that starts from h∘γ_{s*},
+   * the state moved along its dilation orbit to the maximiser of F(s). Recorded with
+   * its origin so nobody mistakes it for a step of a flow.
+   */
+  async jumpToMaximiser(user: AuthenticatedUser, id: string, body: ForkRequest): Promise<Run> {
+    const { run } = await this.find(user, id);
+    await this.access.assertCanWork(user, run.studyId);
+    const parsed = safeParseRunSpec(applySpecOverrides(run.spec as unknown as Record<string, unknown>, { symmetry: 'none', ...body.overrides }));
+    if (!parsed.success) {
+      throw badInput(`overrides: ${parsed.message}`, parsed.issues.map((issue) => ({ path: `overrides.${issue.path}`, message: issue.message })));
+    }
+    await this.quotas.assertSpecsWithin(user.id, [parsed.spec]);
+    const parent = await loadCheckpointState(this.db, id);
+    let jump;
+    try {
+      jump = jumpToDilationMaximum(parent, parsed.spec);
+    } catch (error) {
+      throw badInput(error instanceof Error ? error.message : String(error));
+    }
+    const bytes = Buffer.from(serializeCheckpoint(jump.run));
+    const origin = { kind: 'dilation-jump', sStar: jump.sStar, gap: jump.gap, energyAtMax: jump.energyAtMax, experimental: true };
+    const forkId = await this.db.transaction().execute(async (trx) => {
+      const created = await trx
+        .insertInto('runs')
+        .values({
+          study_id: run.studyId,
+          owner_id: user.id,
+          spec: JSON.stringify(parsed.spec),
+          axis_values: '{}',
+          parent_checkpoint_id: id,
+          priority: run.priority,
+          origin: JSON.stringify(origin),
+        })
+        .returning('id')
+        .executeTakeFirstOrThrow();
+      await trx
+        .insertInto('checkpoints')
+        .values({
+          run_id: created.id,
+          seq: 1,
+          step: jump.run.s.step,
+          t: runTime(jump.run),
+          points: jump.run.r.length,
+          reason: 'start',
+          cpu_seconds: 0,
+          size_bytes: bytes.length,
+          sha256: createHash('sha256').update(bytes).digest('hex'),
+          state: bytes,
+        })
+        .execute();
+      return created.id;
+    });
+    await this.events.publish({ type: 'state', runId: forkId, state: 'queued', outcome: null, waitReason: null });
+    return this.runs.get(user, forkId);
   }
 
   /** Continues the same run from this checkpoint. */

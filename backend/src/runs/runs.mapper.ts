@@ -24,6 +24,7 @@ export function toRun(row: Selectable<RunsTable> & { parent_run_id?: string | nu
     priority: row.priority,
     parentCheckpointId: row.parent_checkpoint_id,
     parentRunId: row.parent_run_id ?? null,
+    origin: (row.origin as Run['origin']) ?? null,
     controlRequest: row.control_request,
     workerId: row.worker_id,
     cpuSeconds: row.cpu_seconds,

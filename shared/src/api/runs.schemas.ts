@@ -61,6 +61,8 @@ export interface Run {
   parentCheckpointId: string | null;
   /** The run the parent checkpoint belongs to, for forks. */
   parentRunId: string | null;
+  /** How the run began, when not plainly from its spec or a fork: the experimental dilation jump. */
+  origin: { kind: 'dilation-jump'; sStar: number; gap: number; energyAtMax: number; experimental: true } | null;
   controlRequest: 'pause' | 'cancel' | null;
   workerId: string | null;
   cpuSeconds: number;
@@ -94,4 +96,14 @@ export interface CheckpointProfile {
   h: number[];
   t: number;
   step: number;
+}
+
+/** F(s) = D(h∘γ_s) of a checkpoint's state (`GET /api/checkpoints/:id/dilation-profile`). */
+export interface DilationProfileView {
+  /** (s, F(s)) on a log grid. */
+  profile: [number, number][];
+  sStar: number;
+  energyAtMax: number;
+  /** F(s*) − F(1). */
+  gap: number;
 }

@@ -121,6 +121,7 @@ export interface RunsTable {
   worker_id: string | null;
   cpu_seconds: Generated<number>;
   pause_reason: 'request' | 'cpu-budget' | null;
+  origin: JsonNullable<unknown>;
   created_at: Generated<Date>;
   started_at: TimestampNullable;
   finished_at: TimestampNullable;
