@@ -51,7 +51,7 @@ async function seedDemo(): Promise<void> {
   const db = createDatabase({ connectionString: databaseUrl(), max: 1, applicationName: 'kiln-seed' });
   try {
     const admin = adminEmail && adminPassword ? { email: adminEmail, passwordHash: await hasher.hash(adminPassword) } : undefined;
-    const result = await seedDemoLab(db, { passwordHashes, admin });
+    const result = await seedDemoLab(db, { passwordHashes, admin, demoSweeps: true });
     console.log('[kiln] demo lab (fictional Vellmar Institute) — sign in with:');
     for (const person of DEMO_PEOPLE) {
       const isEnvAdmin = person.key === 'admin' && admin;

@@ -67,7 +67,14 @@ describe('npm start (scripts/start.sh)', () => {
 
       const password = passwordFor(first.output(), 'joren.askeland@vellmar.example');
       expect(password.length).toBeGreaterThan(8);
-      expect((await login(ports.api, 'joren.askeland@vellmar.example', password)).status).toBe(200);
+      const signedIn = await login(ports.api, 'joren.askeland@vellmar.example', password);
+      expect(signedIn.status).toBe(200);
+      const { accessToken } = await signedIn.json();
+      // The demo sweeps run on the started workers.
+      await waitFor('a demo run to finish', async () => {
+        const runs = await (await fetch(`http://127.0.0.1:${ports.api}/api/runs?scope=mine&state=finished`, { headers: { authorization: `Bearer ${accessToken}` } })).json();
+        return runs.total > 0;
+      }, 60_000);
       const page = await fetch(`http://127.0.0.1:${ports.api}/studies/deep/link`);
       expect(page.status).toBe(200);
       expect(await page.text()).toContain('<div id="root">');

@@ -1,6 +1,6 @@
 import type { Kysely } from 'kysely';
 import type { Database } from '@kiln/shared/db';
-import { Role } from '@kiln/shared';
+import { expandSweep, Role, type SweepAxis } from '@kiln/shared';
 
 /**
  * The fictional demo lab: the Geometric Flows Group at the (invented) Vellmar
@@ -21,9 +21,39 @@ export const DEMO_STUDY = {
     'Does the flow from the identity of S^3 into elongated ellipsoids converge, or form a singularity, as the axis ratio crosses 2√2?',
 };
 
+/** Two small sweeps that run in seconds on the demo workers, so every page has something to show. */
+export const DEMO_SWEEPS: { name: string; base: object; axes: SweepAxis[] }[] = [
+  {
+    name: 'Demo: S³ into ellipsoids across the threshold 2√2',
+    base: {
+      domain: { kind: 'sphere', dim: 3 },
+      target: { kind: 'ellipsoid', axisRatio: 2 },
+      initial: { kind: 'identity' },
+      grid: { points: 150 },
+      time: { tMax: 100, maxStep: 1 },
+      stop: { tension: 1e-8, gradientBound: 1e6 },
+    },
+    axes: [{ path: 'target.axisRatio', values: [1.5, 2, 2.5, 2.7, 2.9, 3.5, 4, 5] }],
+  },
+  {
+    name: 'Demo: ball B² into S², boundary angle from 0.5π to 1.5π',
+    base: {
+      domain: { kind: 'ball', dim: 2, boundaryAngle: Math.PI },
+      target: { kind: 'sphere' },
+      initial: { kind: 'identity' },
+      grid: { points: 200 },
+      time: { tMax: 50, maxStep: 1 },
+      stop: { tension: 1e-8, gradientBound: 1e8 },
+    },
+    axes: [{ path: 'domain.boundaryAngle', range: { from: 0.5 * Math.PI, to: 1.5 * Math.PI, steps: 6, scale: 'linear' } }],
+  },
+];
+
 export interface SeedDemoOptions {
   /** Password hashes per demo person (hashing is the caller's job). */
   passwordHashes: Record<DemoPersonKey, string>;
+  /** Also create the demo sweeps (the start command does; tests that count runs do not). */
+  demoSweeps?: boolean;
   /** When set, the first admin uses this e-mail (KILN_ADMIN_EMAIL) and hash (KILN_ADMIN_PASSWORD). */
   admin?: { email: string; passwordHash: string };
 }
@@ -79,6 +109,32 @@ export async function seedDemoLab(db: Kysely<Database>, options: SeedDemoOptions
           { study_id: id, user_id: ids.collaborator, role: 'member' },
         ])
         .execute();
+    }
+    const demoStudy = await trx.selectFrom('studies').select('id').where('name', '=', DEMO_STUDY.name).executeTakeFirstOrThrow();
+    const hasSweeps = await trx.selectFrom('sweeps').select('id').where('study_id', '=', demoStudy.id).executeTakeFirst();
+    if (options.demoSweeps && !hasSweeps) {
+      for (const sweep of DEMO_SWEEPS) {
+        const expansion = expandSweep(sweep.base, sweep.axes);
+        if (!expansion.ok) throw new Error(`demo sweep "${sweep.name}": ${expansion.message}`);
+        const row = await trx
+          .insertInto('sweeps')
+          .values({ study_id: demoStudy.id, owner_id: ids.postdoc, name: sweep.name, base_spec: JSON.stringify(sweep.base), axes: JSON.stringify(sweep.axes), run_count: expansion.runs.length })
+          .returning('id')
+          .executeTakeFirstOrThrow();
+        await trx
+          .insertInto('runs')
+          .values(
+            expansion.runs.map((run) => ({
+              study_id: demoStudy.id,
+              sweep_id: row.id,
+              owner_id: ids.postdoc,
+              sweep_index: run.index,
+              axis_values: JSON.stringify(run.axisValues),
+              spec: JSON.stringify(run.spec),
+            })),
+          )
+          .execute();
+      }
     }
     const adminEmail = options.admin?.email.toLowerCase() ?? DEMO_PEOPLE[0].email;
     return { created, adminEmail };
