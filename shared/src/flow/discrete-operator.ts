@@ -104,11 +104,22 @@ export class DiscreteOperator {
     this.volume[n] = 0.5 * this.a[n - 1]! * this.dr[n - 1]!;
   }
 
+  /** X_h/|S^(m−1)| at the h of the last {@link assemble} given a `cgrad` array. */
+  assembledCenter = 0;
+
   /**
    * Gradient G = ∂D_h/∂h (without |S^(m−1)|) into `grad`; with `diag`/`upper` also the
-   * tridiagonal Hessian (upper[i] couples i and i+1). Returns D_h/|S^(m−1)|.
+   * tridiagonal Hessian (upper[i] couples i and i+1); with `cgrad` also L = ∂X_h/∂h as
+   * {@link centerGradient} gives it, in the same pass (X_h in {@link assembledCenter}).
+   * Returns D_h/|S^(m−1)|.
    */
-  assemble(h: Float64Array, grad: Float64Array, diag: Float64Array | null, upper: Float64Array | null): number {
+  assemble(
+    h: Float64Array,
+    grad: Float64Array,
+    diag: Float64Array | null,
+    upper: Float64Array | null,
+    cgrad: Float64Array | null = null,
+  ): number {
     const n = this.cells;
     const tv = this.tv;
     const target = this.model.target;
@@ -123,6 +134,8 @@ export class DiscreteOperator {
     // entry is written once (no clearing pass, no read-modify-write).
     let gCarry = 0;
     let dCarry = 0;
+    let cCarry = 0;
+    let center = 0;
     const withJacobian = diag !== null && upper !== null;
     for (let j = 0; j < n; j++) {
       const hr = h[j + 1]!;
@@ -142,6 +155,12 @@ export class DiscreteOperator {
       energy += 0.5 * (aP * d * s * s + c * Q);
       cm[j] = 0.5 * aP * d;
       cs[j] = 0.25 * a * d * P1;
+      if (cgrad !== null) {
+        const cj = this.cosMid[j]!;
+        cgrad[j] = cCarry - cj * A + cj * B;
+        cCarry = cj * A + cj * B;
+        center += cj * (P * s * s + this.potential[j]! * Q) * a * d;
+      }
       if (withJacobian) {
         const C0 = 0.125 * (a * d * tv[2]! * s * s + c * tv[5]!);
         const C1 = 0.5 * a * P1 * s;
@@ -154,6 +173,10 @@ export class DiscreteOperator {
     }
     grad[n] = gCarry;
     if (withJacobian) diag[n] = dCarry;
+    if (cgrad !== null) {
+      cgrad[n] = cCarry;
+      this.assembledCenter = 0.5 * center;
+    }
     return energy;
   }
 

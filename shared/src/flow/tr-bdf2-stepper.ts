@@ -1,5 +1,5 @@
 import type { DiscreteOperator } from './discrete-operator';
-import { solveTridiagonal } from './tridiagonal';
+import { solveTridiagonal, solveTridiagonal2 } from './tridiagonal';
 
 /**
  * One step of TR-BDF2 (Bank et al., IEEE Trans. Electron Devices 32, 1985; error
@@ -157,8 +157,8 @@ export class StepperWorkspace {
     let sigma = this.sigma;
     let previous = Infinity;
     for (let it = 1; it <= NEWTON_MAX_ITERATIONS; it++) {
-      op.assemble(z, grad, hDiag, hUpper);
-      const C = op.centerGradient(z, cgrad);
+      op.assemble(z, grad, hDiag, hUpper, cgrad);
+      const C = op.assembledCenter;
       op.drift(z, wdrift);
       const ts = theta * sigma;
       let wmax = 0;
@@ -175,9 +175,8 @@ export class StepperWorkspace {
         jUpper[i] = sr * diff + theta * hUpper[i]! - ts * (sr * w + mass * wu[i]!);
         border[i] = -theta * mass * w;
       }
-      // Two Thomas solves with the same matrix: x = J⁻¹R (in delta), y = J⁻¹b (in border).
-      if (!solveTridiagonal(1, n - 1, jLower, jDiag, jUpper, delta, work)) return -1;
-      if (!solveTridiagonal(1, n - 1, jLower, jDiag, jUpper, border, work)) return -1;
+      // Two Thomas solves with the same matrix, in one sweep: x = J⁻¹R (in delta), y = J⁻¹b (in border).
+      if (!solveTridiagonal2(1, n - 1, jLower, jDiag, jUpper, delta, border, work)) return -1;
       let lx = 0;
       let ly = 0;
       for (let i = 1; i < n; i++) {

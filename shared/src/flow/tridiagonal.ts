@@ -35,3 +35,38 @@ export function solveTridiagonal(
   }
   return true;
 }
+
+/**
+ * {@link solveTridiagonal} for two right-hand sides at once (one elimination, both
+ * vectors carried through it): the two Thomas solves of the bordered system of the
+ * normalized flow (tr-bdf2-stepper.ts). Overwrites `rhsA` and `rhsB`.
+ */
+export function solveTridiagonal2(
+  lo: number,
+  hi: number,
+  lower: Float64Array,
+  diag: Float64Array,
+  upper: Float64Array,
+  rhsA: Float64Array,
+  rhsB: Float64Array,
+  work: Float64Array,
+): boolean {
+  let inv = 1 / diag[lo]!;
+  if (!Number.isFinite(inv)) return false;
+  rhsA[lo] = rhsA[lo]! * inv;
+  rhsB[lo] = rhsB[lo]! * inv;
+  for (let i = lo + 1; i <= hi; i++) {
+    const w = upper[i - 1]! * inv;
+    work[i - 1] = w;
+    const l = lower[i - 1]!;
+    inv = 1 / (diag[i]! - l * w);
+    if (!Number.isFinite(inv)) return false;
+    rhsA[i] = (rhsA[i]! - l * rhsA[i - 1]!) * inv;
+    rhsB[i] = (rhsB[i]! - l * rhsB[i - 1]!) * inv;
+  }
+  for (let i = hi - 1; i >= lo; i--) {
+    rhsA[i] = rhsA[i]! - work[i]! * rhsA[i + 1]!;
+    rhsB[i] = rhsB[i]! - work[i]! * rhsB[i + 1]!;
+  }
+  return true;
+}
