@@ -98,4 +98,24 @@ describe('flow command (numerics.md §5)', () => {
     expect(bad.status).toBe(2);
     expect(bad.stderr).toMatch(/positive finite/);
   });
+
+  it('a normalized run adds "recentre" and "sigmaInitial" to the summary', () => {
+    // Source: numerics.md §1 (the normalized flow starts from X = 0, after re-centring h₀ → h₀∘γ_s).
+    const res = flow({
+      domain: { kind: 'sphere', dim: 3 },
+      target: { kind: 'sphere' },
+      flow: 'normalized',
+      initial: { kind: 'perturbed', amplitude: 0.2, mode: 1 },
+      grid: { points: 100 },
+      time: { tMax: 0.5, maxStep: 0.1 },
+    });
+    expect(res.status).toBe(0);
+    const out = JSON.parse(res.stdout.trim());
+    expect(out.symmetry).toBe('none');
+    expect(Object.keys(out.recentre).sort()).toEqual(['centerBefore', 'energyAfter', 'energyBefore', 's']);
+    expect(out.recentre.s).toBeLessThan(1);
+    expect(out.recentre.centerBefore).toBeGreaterThan(1);
+    expect(Math.abs(out.center)).toBeLessThan(1e-12);
+    expect(typeof out.sigmaInitial).toBe('number');
+  });
 });
