@@ -73,7 +73,9 @@ function main(): void {
     const d = runDiagnostics(run);
     process.stderr.write(
       `t=${d.t.toPrecision(10)} step=${d.step} dt=${d.dt.toExponential(2)} N=${d.points} D=${d.energy.toPrecision(8)} ` +
-        `|tau|=${d.tension.toExponential(3)} max|grad u|=${d.gradMax.toExponential(3)} at r=${d.gradMaxAt.toExponential(3)}\n`,
+        `|tau|=${d.tension.toExponential(3)} max|grad u|=${d.gradMax.toExponential(3)} at r=${d.gradMaxAt.toExponential(3)}` +
+        (d.sigmaDenominator !== null ? ` X=${d.center!.toExponential(2)} sigma=${d.sigma!.toExponential(3)} (denominator ${d.sigmaDenominator.toExponential(3)})` : '') +
+        '\n',
     );
     if (res.done) break;
     nextReport = cpuSeconds(start) + PROGRESS_EVERY_SECONDS;
