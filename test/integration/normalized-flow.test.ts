@@ -61,6 +61,14 @@ describe('the normalized flow and Möbius diagnostics through the product', () =
     expect(run.summary.recentre).toMatchObject({ s: expect.any(Number), centerBefore: expect.any(Number) });
     expect(run.summary.recentre.s).not.toBe(1);
     expect(typeof run.summary.sigmaInitial).toBe('number');
+    // σ and the constraint's denominator are logged with every sample.
+    const metrics = (await api.request('GET', `/api/runs/${run.id}/metrics`, { token })).body;
+    expect(metrics.length).toBeGreaterThan(3);
+    for (const sample of metrics) {
+      expect(Number.isFinite(sample.sigma)).toBe(true);
+      expect(Number.isFinite(sample.sigmaDenominator)).toBe(true);
+      expect(Math.abs(sample.center)).toBeLessThan(1e-10);
+    }
   });
 
   it("a checkpoint's Möbius energy profile, and the experimental jump to its maximiser recorded as a fork", async () => {

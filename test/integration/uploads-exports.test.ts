@@ -165,7 +165,7 @@ describe('uploads and exports', () => {
     const metricsJson = (await api.request('GET', `/api/runs/${runId}/metrics`, { token: tokens[alice.email] })).body;
     const metricsCsv = await (await fetch(`${api.baseUrl}/api/runs/${runId}/metrics.csv`, { headers: { authorization: `Bearer ${tokens[alice.email]}` } })).text();
     const lines = metricsCsv.trim().split('\r\n');
-    expect(lines[0]).toBe('step,t,dt,energy,tension,gradMax,gradMaxAt,lambda,center,sigma,points,newtonIterations');
+    expect(lines[0]).toBe('step,t,dt,energy,tension,gradMax,gradMaxAt,lambda,center,sigma,sigmaDenominator,points,newtonIterations');
     expect(lines).toHaveLength(metricsJson.length + 1);
     expect(Number(lines[1]!.split(',')[3])).toBe(metricsJson[0].energy);
 

@@ -45,7 +45,7 @@ export class RunsController {
     const samples = await this.runs.metrics(user, runId, { from: -1, limit: 1_000_000 });
     response.setHeader('Content-Type', 'text/csv; charset=utf-8');
     response.setHeader('Content-Disposition', `attachment; filename="kiln-run-${runId}-metrics.csv"`);
-    const columns = ['step', 't', 'dt', 'energy', 'tension', 'gradMax', 'gradMaxAt', 'lambda', 'center', 'sigma', 'points', 'newtonIterations'] as const;
+    const columns = ['step', 't', 'dt', 'energy', 'tension', 'gradMax', 'gradMaxAt', 'lambda', 'center', 'sigma', 'sigmaDenominator', 'points', 'newtonIterations'] as const;
     return csvLine([...columns]) + samples.map((sample) => csvLine(columns.map((c) => sample[c]))).join('');
   }
 

@@ -46,6 +46,7 @@ export function toMetricSample(row: Selectable<RunMetricsTable>): MetricSample {
     lambda: row.lambda,
     center: row.center,
     sigma: row.sigma,
+    sigmaDenominator: row.sigma_denominator,
     points: row.points,
     newtonIterations: row.newton_iterations,
   };

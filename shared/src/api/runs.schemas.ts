@@ -19,6 +19,8 @@ export interface MetricSample {
   lambda: number;
   center: number | null;
   sigma: number | null;
+  /** The normalized flow's constraint denominator (null otherwise); near zero means degenerate. */
+  sigmaDenominator?: number | null;
   points: number;
   newtonIterations: number;
 }

@@ -155,6 +155,7 @@ export interface RunMetricsTable {
   lambda: number;
   center: number | null;
   sigma: number | null;
+  sigma_denominator: ColumnType<number | null, number | null | undefined, number | null>;
   points: number;
   newton_iterations: number;
 }

@@ -79,6 +79,7 @@ export function toMetricSample(d: DiagnosticSample): MetricSample {
     lambda: d.lambda,
     center: d.center,
     sigma: d.sigma,
+    sigmaDenominator: d.sigmaDenominator,
     points: d.points,
     newtonIterations: d.newtonIterations,
   };
@@ -168,6 +169,7 @@ export class RunStore {
         lambda: d.lambda,
         center: d.center,
         sigma: d.sigma,
+        sigma_denominator: d.sigmaDenominator,
         points: d.points,
         newton_iterations: d.newtonIterations,
       }));
