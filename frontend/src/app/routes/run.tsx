@@ -21,6 +21,9 @@ import { RunControls } from '@/features/runs/components/run-controls';
 import { RunMetricsCharts } from '@/features/runs/components/run-metrics-charts';
 import { runLabel } from '@/features/runs/components/runs-list';
 import { SpecPanel } from '@/features/runs/components/spec-panel';
+import { DilationProfilePanel } from '@/features/mobius/components/dilation-profile-panel';
+import { ExperimentalOrigin } from '@/features/mobius/components/experimental-origin';
+import { MobiusTrajectoryPanel } from '@/features/mobius/components/mobius-trajectory-panel';
 import { useStudy } from '@/features/studies/api/get-studies';
 import { RunExports } from '@/features/uploads/components/run-exports';
 import { formatNumber, shortId } from '@/lib/format';
@@ -109,7 +112,11 @@ function RunRoute() {
         subtitle={`${r.sweepIndex !== null ? `Run ${r.sweepIndex + 1} of its sweep · ` : ''}${runLabel(r)}${r.progress ? ` · t = ${formatNumber(r.progress.t, 4)}, step ${r.progress.step}` : ''}`}
         extra={<RunControls run={r} canWork={canWork} />}
       />
-      {r.parentRunId && r.parentCheckpointId ? <ParentNote parentRunId={r.parentRunId} parentCheckpointId={r.parentCheckpointId} /> : null}
+      {r.origin?.kind === 'dilation-jump' ? (
+        <ExperimentalOrigin run={r} origin={r.origin} />
+      ) : r.parentRunId && r.parentCheckpointId ? (
+        <ParentNote parentRunId={r.parentRunId} parentCheckpointId={r.parentCheckpointId} />
+      ) : null}
       {r.state === 'waiting' && r.waitReason ? <Alert type="warning" showIcon className="parent-note" title={`Waiting: ${r.waitReason}`} /> : null}
       <div className="page__grid page__grid--run">
         <div className="page__main">
@@ -138,6 +145,7 @@ function RunRoute() {
               <RunMetricsCharts samples={metrics.data} spec={r.spec} blowupT={blowupT} />
             )}
           </Card>
+          {r.spec.domain.kind === 'sphere' ? <MobiusTrajectoryPanel run={r} metrics={metrics} /> : null}
           <Card title="Profile snapshots h(r)" className="panel" size="small">
             {checkpoints.isPending ? (
               <Skeleton active paragraph={{ rows: 4 }} />
@@ -147,6 +155,9 @@ function RunRoute() {
               <ProfileSnapshots checkpoints={checkpoints.data} spec={r.spec} />
             )}
           </Card>
+          {r.spec.domain.kind === 'sphere' ? (
+            <DilationProfilePanel run={r} checkpoints={checkpoints} canWork={canWork} onJumped={(newRunId) => navigate(paths.run.getHref(newRunId))} />
+          ) : null}
           <Card
             title="Checkpoints"
             className="panel"

@@ -1,0 +1,22 @@
+/**
+ * A value-axis range for a series that may be (nearly) constant: when the data span
+ * less than `minSpan`, an explicit range `minSpan` wide around the data's middle, so
+ * round-off never fills the plot height; otherwise null (the chart picks nice bounds).
+ */
+export function forcedAxisRange(values: readonly (number | null)[], minSpan: number): { min: number; max: number } | null {
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (const v of values) {
+    if (v === null || !Number.isFinite(v)) continue;
+    if (v < lo) lo = v;
+    if (v > hi) hi = v;
+  }
+  if (lo > hi || hi - lo >= minSpan) return null;
+  const mid = (lo + hi) / 2;
+  return { min: mid - minSpan / 2, max: mid + minSpan / 2 };
+}
+
+/** ECharts y-axis bounds: the forced range (hide its odd end labels with `showMin/MaxLabel`) or nice automatic bounds. */
+export function yBounds(range: { min: number; max: number } | null) {
+  return range ? { min: range.min, max: range.max } : { scale: true };
+}
