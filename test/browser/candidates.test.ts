@@ -1,4 +1,6 @@
-import { readFileSync } from 'node:fs';
+import { cpSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { launchBrowser, saveScreenshot as saveFullPage } from '../support/browser';
@@ -12,6 +14,16 @@ import { startWorker, stopProcesses, type WorkerProcess } from '../support/worke
 // Triage of a possible singularity in the browser against the real API, scheduler
 // and a real worker: the queue, the candidate's evidence plots, a verdict, and a
 // finer fork in one click with its comparison.
+
+/**
+ * The built web app copied once for this file, so a rebuild of frontend/dist by
+ * someone else during the run cannot swap the lazily loaded pages' files away.
+ */
+function snapshotWebApp(): string {
+  const dir = mkdtempSync(path.join(tmpdir(), 'kiln-web-'));
+  cpSync('frontend/dist', dir, { recursive: true });
+  return dir;
+}
 
 /** Ball B² → S² with h₀ = 1.5π·r: blows up within seconds (numerics.md §4). */
 const BLOWUP_SPEC = {
@@ -42,6 +54,7 @@ describe('blow-up candidates in the browser', () => {
   let redis: TestRedis;
   let api: TestApi;
   let browser: Browser;
+  let webDir: string;
   let demo: DemoCredentials;
   let runId: string;
   let candidateId: string;
@@ -51,7 +64,8 @@ describe('blow-up candidates in the browser', () => {
     database = await createTestDatabase();
     demo = await seedDemoLabForTests(database.db);
     redis = await startTestRedis();
-    api = await startTestApi(database.url, { REDIS_URL: redis.url, KILN_SCHEDULER_TICK_MS: '100' });
+    webDir = snapshotWebApp();
+    api = await startTestApi(database.url, { REDIS_URL: redis.url, KILN_SCHEDULER_TICK_MS: '100', KILN_WEB_DIR: webDir });
     workers.push(await startWorker(database.db, { databaseUrl: database.url, redisUrl: redis.url, host: 'bench-c', slots: 2, checkpointSeconds: 1 }));
     browser = await launchBrowser();
 
@@ -78,6 +92,7 @@ describe('blow-up candidates in the browser', () => {
     await api?.close();
     await redis?.stop();
     await database?.drop();
+    if (webDir) rmSync(webDir, { recursive: true, force: true });
   });
 
   async function signedInPage(person: { email: string; password: string; name: string }): Promise<Page> {
@@ -154,7 +169,10 @@ describe('blow-up candidates in the browser', () => {
 
     await finerLink.click();
     await page.waitForURL(new RegExp(`/runs/${finer.finer_run_id}$`));
-    await page.getByTestId('parent-link').waitFor();
+    await page.getByTestId('parent-link').waitFor().catch(async (e) => {
+      await saveFullPage(page, 'debug-finer-run');
+      throw e;
+    });
     await page.context().close();
   });
 

@@ -1,3 +1,6 @@
+import { cpSync, mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { newPasswordSchema } from '@kiln/shared';
@@ -13,6 +16,16 @@ import { createTestDatabase, type TestDatabase } from '../support/test-database'
 // real SMTP round trip to the local sink: an invitation sent from the study page,
 // accepted from the e-mailed link by someone new, the outbox page for admins,
 // "Forgot your password?" with its e-mailed link, and the account page.
+
+/**
+ * The built web app copied once for this file, so a rebuild of frontend/dist by
+ * someone else during the run cannot swap the lazily loaded pages' files away.
+ */
+function snapshotWebApp(): string {
+  const dir = mkdtempSync(path.join(tmpdir(), 'kiln-web-'));
+  cpSync('frontend/dist', dir, { recursive: true });
+  return dir;
+}
 
 /** A full-page screenshot from the top, the viewport as tall as the content. */
 async function saveScreenshot(page: Page, name: string) {
@@ -37,6 +50,7 @@ describe('collaboration in the browser', () => {
   let api: TestApi;
   let sink: ReturnType<typeof createSmtpSink>;
   let browser: Browser;
+  let webDir: string;
   let demo: DemoCredentials;
   let studyId: string;
   let inviteLink: string;
@@ -69,7 +83,9 @@ describe('collaboration in the browser', () => {
     const smtpPort = await freePort();
     sink = createSmtpSink(database.db);
     await new Promise<void>((resolve) => sink.listen(smtpPort, '127.0.0.1', resolve));
+    webDir = snapshotWebApp();
     api = await startTestApi(database.url, {
+      KILN_WEB_DIR: webDir,
       REDIS_URL: redis.url,
       KILN_SCHEDULER_TICK_MS: '100',
       SMTP_URL: `smtp://127.0.0.1:${smtpPort}`,
@@ -90,6 +106,7 @@ describe('collaboration in the browser', () => {
     await new Promise<void>((resolve) => (sink ? sink.close(() => resolve()) : resolve()));
     await redis?.stop();
     await database?.drop();
+    if (webDir) rmSync(webDir, { recursive: true, force: true });
   });
 
   async function newPage(): Promise<Page> {
@@ -201,7 +218,10 @@ describe('collaboration in the browser', () => {
     await page.getByRole('button', { name: 'Sign in' }).click();
     await page.getByRole('button', { name: 'Accept and open the study' }).click();
     await page.waitForURL(new RegExp(`/studies/${privateStudy.id}$`), { timeout: 15_000 });
-    await page.getByRole('heading', { name: 'Private: B³ blow-up thresholds' }).waitFor();
+    await page.getByRole('heading', { name: 'Private: B³ blow-up thresholds' }).waitFor().catch(async (e) => {
+      await saveFullPage(page, 'debug-invitation-existing-account');
+      throw e;
+    });
     await page.context().close();
   });
 

@@ -32,7 +32,8 @@ export function loader({ params }: LoaderFunctionArgs) {
 function CandidateRoute() {
   const { candidateId = '' } = useParams();
   const candidate = useCandidate(candidateId);
-  const plots = useCandidatePlots(candidateId);
+  const runComputing = !!candidate.data && !['finished', 'failed', 'cancelled'].includes(candidate.data.runState);
+  const plots = useCandidatePlots(candidateId, runComputing);
   const me = useMe();
   const study = useStudy(candidate.data?.studyId);
 

@@ -14,4 +14,6 @@ export const candidatePlotsQueryOptions = (candidateId: string) =>
     staleTime: 30_000,
   });
 
-export const useCandidatePlots = (candidateId: string) => useQuery(candidatePlotsQueryOptions(candidateId));
+/** `live` while the candidate's run is still computing: its history and checkpoints grow, so the plots are read again. */
+export const useCandidatePlots = (candidateId: string, live = false) =>
+  useQuery({ ...candidatePlotsQueryOptions(candidateId), refetchInterval: live ? 5_000 : false });

@@ -75,7 +75,14 @@ function RescaledProfiles({ plots }: { plots: CandidatePlots }) {
     [profiles],
   );
   if (profiles.length === 0) return <p className="chart-empty">No checkpoint before T̂ to rescale, or no finite T̂.</p>;
-  return <Chart option={option} label="Rescaled profiles h against y, overlaid for a self-similarity check" points={points} />;
+  return (
+    <>
+      <Chart option={option} label="Rescaled profiles h against y, overlaid for a self-similarity check" points={points} />
+      {profiles.length === 1 ? (
+        <p className="evidence-plots__note">Only one checkpoint lies before T̂, so there is nothing to overlay yet; a finer run, or more frequent checkpoints, gives more.</p>
+      ) : null}
+    </>
+  );
 }
 
 function History({ plots }: { plots: CandidatePlots }) {
