@@ -110,6 +110,7 @@ describe('blow-up candidates in the browser', () => {
     const page = await signedInPage(demo.researcher);
     // The overview lists it among the new candidates.
     await page.locator('.candidate-mini-list').getByRole('link', { name: `Run ${runId.slice(0, 8)}` }).waitFor({ timeout: 15_000 });
+    await saveScreenshot(page, 'overview-new-candidates');
 
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Candidates' }).click();
     await page.getByRole('heading', { name: 'Blow-up candidates' }).waitFor();

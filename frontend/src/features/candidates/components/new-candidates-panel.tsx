@@ -1,6 +1,5 @@
 import { Card, Skeleton } from 'antd';
 import { Link } from 'react-router-dom';
-import { EvidenceCaution } from '@/components/evidence-caution';
 import { QueryError } from '@/components/query-error';
 import { paths } from '@/config/paths';
 import { formatAge, shortId } from '@/lib/format';
@@ -8,7 +7,7 @@ import { useCandidates } from '../api/get-candidates';
 import { formatConfidence, formatEstimate } from './candidate-format';
 import { KindTag } from './candidate-tags';
 
-/** Overview: the newest candidates nobody has judged yet. */
+/** Overview: the newest candidates nobody has judged yet (the blow-up panel beside it carries the evidence caution). */
 export function NewCandidatesPanel() {
   const candidates = useCandidates({ verdict: 'none', sort: 'created', order: 'desc', pageSize: 5 });
   return (
@@ -41,7 +40,6 @@ export function NewCandidatesPanel() {
       {candidates.data && candidates.data.total > candidates.data.items.length ? (
         <p className="panel__note">{candidates.data.total} awaiting a verdict in all.</p>
       ) : null}
-      <EvidenceCaution blowup compact />
     </Card>
   );
 }
