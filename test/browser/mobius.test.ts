@@ -25,6 +25,8 @@ const STANDARD_SPEC = {
   stop: { tension: 1e-8, gradientBound: 1e8 },
 };
 const NORMALIZED_SPEC = { ...STANDARD_SPEC, flow: 'normalized' };
+/** S² → S²: the Dirichlet energy is conformally invariant, so F(s) is constant (numerics.md §4, item 3). */
+const TWO_D_SPEC = { ...STANDARD_SPEC, domain: { kind: 'sphere', dim: 2 }, time: { tMax: 0.2, maxStep: 0.05 } };
 
 /** A full-page screenshot from the top, the viewport as tall as the content so the side bar reaches the bottom. */
 async function saveScreenshot(page: Page, name: string) {
@@ -52,6 +54,7 @@ describe('Möbius diagnostics in the browser', () => {
   let token: string;
   let standardId: string;
   let normalizedId: string;
+  let twoDId: string;
   const workers: WorkerProcess[] = [];
 
   beforeAll(async () => {
@@ -72,7 +75,8 @@ describe('Möbius diagnostics in the browser', () => {
     };
     standardId = await launch('S³ perturbed, standard flow', STANDARD_SPEC);
     normalizedId = await launch('S³ perturbed, normalized flow', NORMALIZED_SPEC);
-    for (const id of [standardId, normalizedId]) {
+    twoDId = await launch('S² perturbed, standard flow', TWO_D_SPEC);
+    for (const id of [standardId, normalizedId, twoDId]) {
       const ended = await waitFor(`run ${id} to end`, async () => {
         const run = await database.db.selectFrom('runs').select(['state', 'error']).where('id', '=', id).executeTakeFirstOrThrow();
         return ['finished', 'failed'].includes(run.state) ? run : undefined;
@@ -213,4 +217,27 @@ describe('Möbius diagnostics in the browser', () => {
     await page.getByText('Not offered for the normalized flow', { exact: false }).waitFor();
     await saveScreenshot(page, 'mobius-normalized-run');
   }
+
+  it('in dimension 2 the profile is a flat line and says why (conformal invariance), without magnifying grid error', async () => {
+    const checkpoints = (await api.request('GET', `/api/runs/${twoDId}/checkpoints`, { token })).body as { id: string; seq: number }[];
+    const last = checkpoints[checkpoints.length - 1]!;
+    const profile = (await api.request('GET', `/api/checkpoints/${last.id}/dilation-profile`, { token })).body as { profile: [number, number][] };
+    const values = profile.profile.map(([, f]) => f);
+    // Flat up to grid error: under the 1% the panel calls flat, and far under the 5% the F axis always spans.
+    expect((Math.max(...values) - Math.min(...values)) / Math.max(...values)).toBeLessThan(0.01);
+
+    const page = await signedInPage();
+    try {
+      await page.goto(`${api.baseUrl}/runs/${twoDId}`);
+      await page.getByRole('img', { name: /Energy profile F\(s\) of checkpoint/ }).waitFor({ timeout: 20_000 });
+      await page.getByText('F(s) is flat to within', { exact: false }).waitFor();
+      await page.getByText('In dimension 2 the Dirichlet energy is conformally invariant', { exact: false }).waitFor();
+      await saveScreenshot(page, 'mobius-two-dimensional-run');
+    } catch (error) {
+      await saveFullPage(page, 'debug-mobius-two-d');
+      throw error;
+    } finally {
+      await page.context().close();
+    }
+  }, 30_000);
 });

@@ -20,3 +20,22 @@ export function forcedAxisRange(values: readonly (number | null)[], minSpan: num
 export function yBounds(range: { min: number; max: number } | null) {
   return range ? { min: range.min, max: range.max } : { scale: true };
 }
+
+/**
+ * Significant digits for axis labels, enough that neighbouring ticks of a narrow
+ * range around a large value do not print alike (29.61, 29.62 rather than 29.6, 29.6).
+ */
+export function labelDigits(values: readonly (number | null)[], range: { min: number; max: number } | null): number {
+  let lo = range?.min ?? Infinity;
+  let hi = range?.max ?? -Infinity;
+  for (const v of values) {
+    if (v === null || !Number.isFinite(v)) continue;
+    lo = Math.min(lo, v);
+    hi = Math.max(hi, v);
+  }
+  const size = Math.max(Math.abs(lo), Math.abs(hi));
+  const span = hi - lo;
+  if (!(span > 0) || !(size > 0)) return 3;
+  // Ticks sit about span/5 apart; one more digit than it takes to tell them apart.
+  return Math.min(8, Math.max(3, Math.ceil(Math.log10(size / (span / 5))) + 1));
+}

@@ -11,16 +11,19 @@ import { describeError } from '@/lib/describe-error';
 import { formatForInput, formatNumber } from '@/lib/format';
 import { useDilationProfile } from '../api/get-dilation-profile';
 import { useJumpToMaximiser } from '../api/jump-to-maximiser';
-import { forcedAxisRange, yBounds } from './axis-range';
+import { forcedAxisRange, labelDigits, yBounds } from './axis-range';
 import './mobius.css';
 
-/** The F axis spans at least this fraction of |F|: round-off and grid error stay a flat line. */
-const MIN_RELATIVE_SPAN = 0.02;
+/** The F axis spans at least this fraction of |F|: round-off and grid error stay a (nearly) flat line. */
+const MIN_RELATIVE_SPAN = 0.05;
+/** Below this relative spread F counts as flat, and s* as picked out by round-off and grid error. */
+const FLAT_SPREAD = 0.01;
 
 function profileOption(view: DilationProfileView, f1: number) {
   const values = view.profile.map(([, f]) => f);
   const scale = Math.max(...values.map(Math.abs).filter(Number.isFinite), Math.abs(f1), 1e-12);
   const range = forcedAxisRange([...values, f1, view.energyAtMax], MIN_RELATIVE_SPAN * scale);
+  const digits = labelDigits(values, range);
   return {
     grid: { left: 72, right: 52, top: 40, bottom: 40 },
     tooltip: {
@@ -43,7 +46,7 @@ function profileOption(view: DilationProfileView, f1: number) {
       name: 'F(s)',
       nameTextStyle: { align: 'left' },
       ...yBounds(range),
-      axisLabel: { formatter: (v: number) => formatNumber(v, 4), showMinLabel: !range, showMaxLabel: !range },
+      axisLabel: { formatter: (v: number) => formatNumber(v, digits), showMinLabel: !range, showMaxLabel: !range },
     },
     series: [
       {
@@ -62,7 +65,7 @@ function profileOption(view: DilationProfileView, f1: number) {
             {
               yAxis: f1,
               lineStyle: { color: palette.inkMuted, type: 'dotted' },
-              label: { formatter: `F(1) = ${formatNumber(f1, 5)}`, position: 'insideStartTop', color: palette.inkMuted },
+              label: { formatter: `F(1) = ${formatNumber(f1, 5)}`, position: 'insideStartBottom', color: palette.inkMuted },
             },
           ],
         },
@@ -183,6 +186,7 @@ function ProfileBody({
   const sMin = v.profile[0]![0];
   const sMax = v.profile[v.profile.length - 1]![0];
   const atEdge = v.sStar <= sMin * 1.0001 || v.sStar >= sMax / 1.0001;
+  const flat = spread < FLAT_SPREAD;
   return (
     <>
       <div className="mobius-profile">
@@ -222,7 +226,17 @@ function ProfileBody({
           <dd>{formatNumber(100 * spread, 3)}% over s ∈ [{formatNumber(sMin, 2)}, {formatNumber(sMax, 2)}]</dd>
         </dl>
       </div>
-      {atEdge ? (
+      {flat ? (
+        <Alert
+          type="info"
+          showIcon
+          className="mobius-section"
+          title={`F(s) is flat to within ${formatNumber(100 * spread, 2)}% over the searched range`}
+          description={`${
+            run.spec.domain.dim === 2 ? 'In dimension 2 the Dirichlet energy is conformally invariant, so F is constant in s. ' : ''
+          }Where F is this flat, s* and the gap come from round-off and grid error, not from a preferred dilation.`}
+        />
+      ) : atEdge ? (
         <Alert
           type="info"
           showIcon

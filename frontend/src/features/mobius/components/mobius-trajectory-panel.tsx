@@ -7,7 +7,7 @@ import { QueryError } from '@/components/query-error';
 import { StatusTag } from '@/components/status-tag';
 import { palette } from '@/config/palette';
 import { formatNumber } from '@/lib/format';
-import { forcedAxisRange, yBounds } from './axis-range';
+import { forcedAxisRange, labelDigits, yBounds } from './axis-range';
 import './mobius.css';
 
 const MAX_PLOTTED = 3_000;
@@ -23,6 +23,7 @@ function thin(samples: MetricSample[]): MetricSample[] {
 const finite = (v: number | null | undefined) => (v !== null && v !== undefined && Number.isFinite(v) ? v : null);
 
 function plot(yName: string, name: string, data: [number, number | null][], color: string, range: { min: number; max: number } | null) {
+  const digits = labelDigits(data.map(([, v]) => v), range);
   return {
     grid: { left: 72, right: 20, top: 30, bottom: 36 },
     tooltip: { trigger: 'axis', valueFormatter: (v: number) => formatNumber(v, 4), axisPointer: { type: 'line' } },
@@ -39,7 +40,7 @@ function plot(yName: string, name: string, data: [number, number | null][], colo
       name: yName,
       nameTextStyle: { align: 'left' },
       ...yBounds(range),
-      axisLabel: { formatter: (v: number) => formatNumber(v, 3), showMinLabel: !range, showMaxLabel: !range },
+      axisLabel: { formatter: (v: number) => formatNumber(v, digits), showMinLabel: !range, showMaxLabel: !range },
     },
     series: [
       {
@@ -144,8 +145,9 @@ export function MobiusTrajectoryPanel({ run, metrics }: { run: Run; metrics: Use
                 <p className="muted">This run recorded no center.</p>
               )}
               <p className="mobius-plots__note mobius-numbers">
-                X: {formatNumber(view.centerFirst, 3)} at the first sample → {formatNumber(view.centerLast, 3)} latest · largest |X| ={' '}
-                {formatNumber(view.centerMax, 3)}
+                X: {formatNumber(view.centerFirst, 4)} at the first sample → {formatNumber(view.centerLast, 4)} latest (change{' '}
+                {view.centerFirst !== null && view.centerLast !== null ? formatNumber(view.centerLast - view.centerFirst, 3) : '—'}) · largest
+                |X| = {formatNumber(view.centerMax, 3)}
               </p>
             </figure>
           </div>
