@@ -1,3 +1,6 @@
+import { cpSync, mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { launchBrowser, saveScreenshot as saveFullPage } from '../support/browser';
@@ -12,6 +15,16 @@ import { startWorker, stopProcesses, type WorkerProcess } from '../support/worke
 // worker: σ(t) and X(t), the energy profile F(s) of a checkpoint with s*, the
 // experimental jump to the maximiser (a new run with its badge and parent link),
 // and the re-centring record of a normalized run.
+
+/**
+ * The built web app copied once for this file, so a rebuild of frontend/dist by
+ * someone else during the run cannot swap the lazily loaded pages' files away.
+ */
+function snapshotWebApp(): string {
+  const dir = mkdtempSync(path.join(tmpdir(), 'kiln-web-'));
+  cpSync('frontend/dist', dir, { recursive: true });
+  return dir;
+}
 
 /** S³ → S³ from the non-symmetric perturbation h₀ = r + 0.2·sin r, on the whole sphere: about a second of CPU. */
 const STANDARD_SPEC = {
@@ -50,6 +63,7 @@ describe('Möbius diagnostics in the browser', () => {
   let redis: TestRedis;
   let api: TestApi;
   let browser: Browser;
+  let webDir: string;
   let demo: DemoCredentials;
   let token: string;
   let standardId: string;
@@ -61,7 +75,8 @@ describe('Möbius diagnostics in the browser', () => {
     database = await createTestDatabase();
     demo = await seedDemoLabForTests(database.db);
     redis = await startTestRedis();
-    api = await startTestApi(database.url, { REDIS_URL: redis.url, KILN_SCHEDULER_TICK_MS: '100' });
+    webDir = snapshotWebApp();
+    api = await startTestApi(database.url, { REDIS_URL: redis.url, KILN_SCHEDULER_TICK_MS: '100', KILN_WEB_DIR: webDir });
     workers.push(await startWorker(database.db, { databaseUrl: database.url, redisUrl: redis.url, host: 'bench-m', slots: 2, checkpointSeconds: 1 }));
     browser = await launchBrowser();
 
@@ -91,6 +106,7 @@ describe('Möbius diagnostics in the browser', () => {
     await api?.close();
     await redis?.stop();
     await database?.drop();
+    if (webDir) rmSync(webDir, { recursive: true, force: true });
   });
 
   async function signedInPage(): Promise<Page> {
