@@ -1,7 +1,7 @@
 import type { CheckpointInfo, DilationProfileView, Run } from '@kiln/shared';
 import type { UseQueryResult } from '@tanstack/react-query';
 import { Alert, Button, Card, Form, Input, Modal, Select, Skeleton } from 'antd';
-import { useId, useMemo, useState } from 'react';
+import { useId, useMemo, useRef, useState } from 'react';
 import { Chart } from '@/components/chart';
 import { IconFork } from '@/components/icons';
 import { QueryError } from '@/components/query-error';
@@ -108,8 +108,20 @@ export function DilationProfilePanel({
 }) {
   const [chosen, setChosen] = useState<string | null>(null);
   const list = checkpoints.data ?? [];
-  // The latest checkpoint until someone picks another (new ones keep arriving while the run goes on).
-  const selected = list.find((c) => c.id === chosen) ?? list[list.length - 1];
+  const latest = list[list.length - 1];
+  // The latest checkpoint until someone picks another. While a run goes on, new checkpoints
+  // keep arriving: the profile shown stays until the newest one's profile has been computed.
+  const following = !list.some((c) => c.id === chosen);
+  const latestProfile = useDilationProfile(following ? latest?.id : undefined);
+  const shown = useRef<string | null>(null);
+  const previous = list.find((c) => c.id === shown.current);
+  const selected = !following
+    ? list.find((c) => c.id === chosen)
+    : latestProfile.isPending && previous
+      ? previous
+      : latest;
+  shown.current = selected?.id ?? null;
+  const catchingUp = following && selected !== latest && !!latest;
   return (
     <Card
       title="Möbius energy profile F(s)"
@@ -145,7 +157,14 @@ export function DilationProfilePanel({
           and the outcome; the latest is picked here as soon as it exists.
         </p>
       ) : (
-        <ProfileBody run={run} checkpoint={selected} canWork={canWork} onJumped={onJumped} />
+        <>
+          {catchingUp ? (
+            <p className="muted" aria-live="polite">
+              Computing the profile of the newest checkpoint #{latest!.seq}; showing #{selected.seq} meanwhile.
+            </p>
+          ) : null}
+          <ProfileBody run={run} checkpoint={selected} canWork={canWork} onJumped={onJumped} />
+        </>
       )}
     </Card>
   );
