@@ -73,6 +73,11 @@ describe('the normalized flow and Möbius diagnostics through the product', () =
 
   it("a checkpoint's Möbius energy profile, and the experimental jump to its maximiser recorded as a fork", async () => {
     const run = await runToEnd(perturbed('standard', 1));
+    expect(run).toMatchObject({ outcome: 'time-limit', outcomeReason: 't-max' });
+    // Resuming would stop at once: the API says to fork with a later end time instead.
+    const resume = await api.request('POST', `/api/runs/${run.id}/resume`, { token });
+    expect(resume.status).toBe(409);
+    expect(resume.body.message).toMatch(/larger time\.tMax/);
     const checkpoints = (await api.request('GET', `/api/runs/${run.id}/checkpoints`, { token })).body;
     const last = checkpoints[checkpoints.length - 1];
     const profile = (await api.request('GET', `/api/checkpoints/${last.id}/dilation-profile`, { token })).body;

@@ -116,6 +116,8 @@ describe('uploads and exports', () => {
     })));
     expect(target.status).toBe(201);
     expect(target.body.summary).toEqual({ rows: n });
+    const listed = (await api.request('GET', '/api/uploads', { token: tokens[alice.email] })).body;
+    expect(listed.find((u: { id: string }) => u.id === initial.body.id).summary).toEqual({ rows: n, domain: 'sphere' });
   });
 
   it('a sweep from an uploaded initial profile and an uploaded target profile runs to an outcome; someone else\'s upload is refused', async () => {

@@ -106,6 +106,9 @@ export class RunsService {
 
   async resume(user: AuthenticatedUser, id: string): Promise<Run> {
     const run = await this.getForWork(user, id);
+    if (run.state === 'finished' && run.outcome === 'time-limit' && run.outcomeReason === 't-max') {
+      throw conflict('The run reached its end time t_max; resuming would stop at once. Fork it from its last checkpoint with a larger time.tMax instead.');
+    }
     const resumable = ['paused', 'cancelled', 'failed'].includes(run.state) || (run.state === 'finished' && run.outcome === 'time-limit');
     if (!resumable) {
       throw conflict(

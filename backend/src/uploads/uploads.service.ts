@@ -69,7 +69,7 @@ export class UploadsService {
     summary: Record<string, unknown>,
   ): Promise<UploadInfo> {
     const row = await this.db.transaction().execute(async (trx) => {
-      const inserted = await trx.insertInto('uploads').values({ ...values, owner_id: user.id }).returning(['id', 'created_at']).executeTakeFirstOrThrow();
+      const inserted = await trx.insertInto('uploads').values({ ...values, owner_id: user.id, summary: JSON.stringify(summary) }).returning(['id', 'created_at']).executeTakeFirstOrThrow();
       await this.audit.record(trx, { actorId: user.id, action: 'upload.create', subjectType: 'upload', subjectId: inserted.id, after: { kind: values.kind, filename: values.filename, size: values.size_bytes } });
       return inserted;
     });
@@ -79,11 +79,11 @@ export class UploadsService {
   async list(user: AuthenticatedUser): Promise<UploadInfo[]> {
     const rows = await this.db
       .selectFrom('uploads')
-      .select(['id', 'kind', 'filename', 'size_bytes', 'sha256', 'created_at'])
+      .select(['id', 'kind', 'filename', 'size_bytes', 'sha256', 'created_at', 'summary'])
       .where('owner_id', '=', user.id)
       .orderBy('created_at', 'desc')
       .execute();
-    return rows.map((row) => ({ id: row.id, kind: row.kind, filename: row.filename, sizeBytes: row.size_bytes, sha256: row.sha256, createdAt: row.created_at.toISOString(), summary: {} }));
+    return rows.map((row) => ({ id: row.id, kind: row.kind, filename: row.filename, sizeBytes: row.size_bytes, sha256: row.sha256, createdAt: row.created_at.toISOString(), summary: row.summary }));
   }
 
   /**

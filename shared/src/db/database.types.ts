@@ -221,6 +221,7 @@ export interface UploadsTable {
   content: JsonNullable<unknown>;
   bytes: Buffer | null;
   sha256: string;
+  summary: ColumnType<Record<string, unknown>, string | undefined, string>;
   created_at: Generated<Date>;
 }
 
