@@ -93,10 +93,10 @@ describe('blow-up candidates', () => {
     expect(mails.filter((m) => m.dedupe_key.startsWith('candidate:'))).toHaveLength(2);
   });
 
-  it('the fitted T̂ agrees with the time at which the gradient bound was hit, within the fit\'s uncertainty (type I)', async () => {
-    // For the two-dimensional (type II) case the fitted power law misses the logarithmic correction of the
-    // true rate (Raphaël & Schweyer, arXiv:1301.1859), so its statistical uncertainty understates the error.
-    for (const key of ['b3']) {
+  it('the fitted T̂ agrees with the time at which the gradient bound was hit, within the fit\'s uncertainty', async () => {
+    // The uncertainty includes the fit's model error (the shift of T̂ within the window), which matters in
+    // two dimensions, where the rate has a logarithmic correction (Raphaël & Schweyer, arXiv:1301.1859).
+    for (const key of ['b2', 'b3']) {
       const candidate = await candidateOf(runOf[key]!);
       const run = (await api.request('GET', `/api/runs/${runOf[key]}`, { token: as(owner) })).body;
       expect(run.outcome).toBe('blowup');

@@ -269,10 +269,15 @@ export function estimateBlowup(rows: HistoryRow[]): BlowupEstimate {
   const sigP = cov ? Math.sqrt(Math.max(0, cov.get(1, 1))) : null;
   const sigT = cov ? Math.sqrt(Math.max(0, cov.get(2, 2))) : null;
   const T = tLast + pow.tail;
+  // The fit's statistical error says nothing about how well a pure power law models the
+  // growth (in two dimensions the rate carries a logarithmic correction); the shift of T̂
+  // between the whole window and its older part measures that model error, so the
+  // reported uncertainty adds it in quadrature.
+  const modelError = earlierT !== null ? Math.abs(T - earlierT) : 0;
   const result: BlowupEstimate = {
     ...empty,
     T,
-    TUncertainty: sigT,
+    TUncertainty: sigT === null ? null : Math.hypot(sigT, modelError),
     exponent: pow.p,
     exponentUncertainty: sigP,
   };
