@@ -142,6 +142,16 @@ describe('quotas and fair sharing', () => {
     expect(tooLong.body.message).toMatch(/limit of 60 CPU seconds per run/);
     const runs = await database.db.selectFrom('runs').select('id').where('owner_id', '=', ada.id).execute();
     expect(runs).toHaveLength(0);
+    // A run admitted under an older, larger limit is refused on resume once the limit is lowered.
+    const { id: runId } = await database.db
+      .insertInto('runs')
+      .values({ study_id: studies[ada.email], owner_id: ada.id, spec: JSON.stringify({ ...QUICK_SPHERE_SPEC, grid: { points: 6000, maxPoints: 6000 }, symmetry: 'auto', time: { ...QUICK_SPHERE_SPEC.time }, stop: { ...QUICK_SPHERE_SPEC.stop } }), state: 'paused', pause_reason: 'request' })
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    const resumed = await api.request('POST', `/api/runs/${runId}/resume`, { token: as(ada) });
+    expect(resumed.status).toBe(422);
+    expect(resumed.body.message).toMatch(/limit of 5000 grid points/);
+    await database.db.deleteFrom('runs').where('id', '=', runId).execute();
   });
 
   it('many parallel submissions by one person never run more than their slots, over the whole sweep', async () => {

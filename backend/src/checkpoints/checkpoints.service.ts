@@ -124,6 +124,7 @@ export class CheckpointsService {
     if (!['paused', 'cancelled', 'failed', 'finished'].includes(run.state)) {
       throw new ApiException(HttpStatus.CONFLICT, ErrorCode.Conflict, `The run is ${run.state}; pause or cancel it before resuming from a checkpoint.`);
     }
+    await this.quotas.assertSpecsWithin(run.ownerId, [run.spec]);
     await this.runs.requeue(run.id, id);
     return this.runs.get(user, run.id);
   }

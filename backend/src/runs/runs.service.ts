@@ -4,6 +4,7 @@ import { ErrorCode, Role, type Page, type RunSearchQuery, type CheckpointInfo, t
 import type { AuthenticatedUser } from '../auth/authenticated-user';
 import { ApiException, notFound, unauthenticated } from '../common/api-error';
 import { DB, type Db } from '../database/database.module';
+import { QuotasService } from '../quotas/quotas.service';
 import { RunEventsService } from '../queue/run-events.service';
 import { RunQueue } from '../queue/run-queue';
 import { StudyAccessService } from '../studies/study-access.service';
@@ -31,6 +32,7 @@ export class RunsService {
     private readonly tickets: EventTicketService,
     private readonly users: UsersRepository,
     private readonly apiTokens: ApiTokensService,
+    private readonly quotas: QuotasService,
   ) {}
 
   /** The run, when the caller may see it (404 otherwise, so ids reveal nothing). */
@@ -117,6 +119,8 @@ export class RunsService {
           : `The run is ${run.state}; only paused, cancelled, failed or time-limited runs can be resumed.`,
       );
     }
+    // Quotas bind every path into the queue: a limit lowered since submission applies on resume.
+    await this.quotas.assertSpecsWithin(run.ownerId, [run.spec]);
     await this.requeue(id, null);
     return this.get(user, id);
   }
