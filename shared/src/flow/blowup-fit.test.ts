@@ -23,12 +23,13 @@ describe('blow-up fit on synthetic histories (numerics.md §3)', () => {
     }
   });
 
-  it('exponential growth in t is infinite-time, with no T', () => {
+  it('exponential growth in t is infinite-time, with no T and no power-law exponent', () => {
     const rows: HistoryRow[] = [];
     for (let k = 0; k < 100; k++) rows.push(row(k * 0.1, Math.exp(0.8 * k * 0.1), 1));
     const e = estimateBlowup(rows);
     expect(e.kind).toBe('infinite-time');
     expect(e.T).toBeNull();
+    expect(e.exponent).toBeNull();
     expect(e.evidence.exponentialRate!).toBeCloseTo(0.8, 8);
   });
 

@@ -302,8 +302,11 @@ export function estimateBlowup(rows: HistoryRow[]): BlowupEstimate {
         `growth rate of ln max|∇u| falling (${rateEarly.toPrecision(3)} → ${rateLate.toPrecision(3)}): possibly the approach to a very steep steady state; needs a larger gradient bound or a finer run`,
       );
     }
+    // No power law describes such growth: report neither T̂ nor an exponent.
     result.T = null;
     result.TUncertainty = null;
+    result.exponent = null;
+    result.exponentUncertainty = null;
     result.confidence = result.kind === 'infinite-time' ? clamp01(0.4 + 0.3 * Math.min(decades, 2) / 2 + (receding ? 0.3 : 0)) : 0.1;
     return result;
   }
