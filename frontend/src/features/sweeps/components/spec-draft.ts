@@ -1,5 +1,6 @@
 import {
   RUN_SPEC_DEFAULTS,
+  type UploadInfo,
   RUN_SPEC_LIMITS as L,
   safeParseRunSpec,
   sweepAxesSchema,
@@ -18,10 +19,14 @@ export interface SpecDraft {
   dim: number | null;
   /** Boundary angle α on the ball, in radians. */
   boundaryAngle: number | null;
-  targetKind: 'sphere' | 'ellipsoid';
+  targetKind: 'sphere' | 'ellipsoid' | 'profile';
   axisRatio: number | null;
+  /** The person's `target-profile` upload behind `target.kind = profile`; null until one is chosen. */
+  targetUploadId: string | null;
   flow: 'standard' | 'normalized';
-  initialKind: 'identity' | 'linear' | 'dilated' | 'perturbed';
+  initialKind: 'identity' | 'linear' | 'dilated' | 'perturbed' | 'table';
+  /** The person's `initial-profile` upload behind `initial.kind = table`; null until one is chosen. */
+  initialUploadId: string | null;
   slope: number | null;
   s: number | null;
   amplitude: number | null;
@@ -45,8 +50,10 @@ export const DEFAULT_SPEC_DRAFT: SpecDraft = {
   boundaryAngle: 0.9 * Math.PI,
   targetKind: 'ellipsoid',
   axisRatio: 2.5,
+  targetUploadId: null,
   flow: 'standard',
   initialKind: 'identity',
+  initialUploadId: null,
   slope: 2,
   s: 1,
   amplitude: 0.1,
@@ -69,7 +76,12 @@ export function toSpecInput(draft: SpecDraft): Record<string, unknown> {
     draft.domainKind === 'ball'
       ? { kind: 'ball', dim: num(draft.dim), boundaryAngle: num(draft.boundaryAngle) }
       : { kind: 'sphere', dim: num(draft.dim) };
-  const target = draft.targetKind === 'ellipsoid' ? { kind: 'ellipsoid', axisRatio: num(draft.axisRatio) } : { kind: 'sphere' };
+  const target =
+    draft.targetKind === 'ellipsoid'
+      ? { kind: 'ellipsoid', axisRatio: num(draft.axisRatio) }
+      : draft.targetKind === 'profile'
+        ? { kind: 'profile', uploadId: draft.targetUploadId ?? undefined }
+        : { kind: 'sphere' };
   let initial: Record<string, unknown>;
   switch (draft.initialKind) {
     case 'identity':
@@ -83,6 +95,9 @@ export function toSpecInput(draft: SpecDraft): Record<string, unknown> {
       break;
     case 'perturbed':
       initial = { kind: 'perturbed', amplitude: num(draft.amplitude), mode: num(draft.mode) };
+      break;
+    case 'table':
+      initial = { kind: 'table', uploadId: draft.initialUploadId ?? undefined };
       break;
   }
   const grid: Record<string, unknown> = { points: num(draft.points) };
@@ -99,13 +114,40 @@ export function toSpecInput(draft: SpecDraft): Record<string, unknown> {
 /** Field path → the schema's message for it ('(spec)' for spec-wide ones). */
 export type FieldErrors = Record<string, string>;
 
-export function validateSpecDraft(draft: SpecDraft): FieldErrors {
+/**
+ * The schema's messages, plus what only the browser knows: whether the chosen
+ * uploads are still the person's and fit the domain (the API checks again and
+ * answers 400 naming `target.uploadId` or `initial.uploadId`).
+ * `uploads` is undefined while the list is loading.
+ */
+export function validateSpecDraft(draft: SpecDraft, uploads?: UploadInfo[]): FieldErrors {
   const result = safeParseRunSpec(toSpecInput(draft));
-  if (result.success) return {};
   const errors: FieldErrors = {};
-  for (const issue of result.issues) errors[issue.path] ??= issue.message;
+  if (!result.success) for (const issue of result.issues) errors[issue.path] ??= issue.message;
+  if (draft.targetKind === 'profile') {
+    if (draft.targetUploadId === null) errors['target.uploadId'] = 'choose one of your uploaded target profiles';
+    else if (uploads && !targetProfileUploads(uploads).some((u) => u.id === draft.targetUploadId)) {
+      errors['target.uploadId'] = 'that upload is not one of your target profiles';
+    }
+  }
+  if (draft.initialKind === 'table') {
+    if (draft.initialUploadId === null) errors['initial.uploadId'] = `choose one of your uploaded initial profiles for the ${draft.domainKind}`;
+    else if (uploads && !initialProfileUploads(uploads, draft.domainKind).some((u) => u.id === draft.initialUploadId)) {
+      errors['initial.uploadId'] = `that upload is not one of your initial profiles for the ${draft.domainKind}`;
+    }
+  }
   return errors;
 }
+
+/** The person's target-profile uploads (CSV h,f,z), newest first as the API lists them. */
+export const targetProfileUploads = (uploads: UploadInfo[]) => uploads.filter((u) => u.kind === 'target-profile');
+
+/** The person's initial-profile uploads (CSV r,h) whose table spans the given domain. */
+export const initialProfileUploads = (uploads: UploadInfo[], domain: 'sphere' | 'ball') =>
+  uploads.filter((u) => u.kind === 'initial-profile' && u.summary.domain === domain);
+
+/** Number of data rows the upload's check counted, if it says. */
+export const uploadRows = (upload: UploadInfo): number | null => (typeof upload.summary.rows === 'number' ? upload.summary.rows : null);
 
 // ---------- axes ----------
 

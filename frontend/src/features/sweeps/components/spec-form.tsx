@@ -1,19 +1,89 @@
-import { RUN_SPEC_DEFAULTS, RUN_SPEC_LIMITS as L } from '@kiln/shared';
+import { RUN_SPEC_DEFAULTS, RUN_SPEC_LIMITS as L, type UploadInfo } from '@kiln/shared';
 import { Alert, Card, Form, Radio, Select } from 'antd';
-import { formatNumber } from '@/lib/format';
+import { Link } from 'react-router-dom';
+import { paths } from '@/config/paths';
+import { formatDateTime, formatNumber } from '@/lib/format';
 import { NumberField } from './number-field';
-import type { FieldErrors, SpecDraft } from './spec-draft';
+import { initialProfileUploads, targetProfileUploads, uploadRows, type FieldErrors, type SpecDraft } from './spec-draft';
 
 type Patch = (patch: Partial<SpecDraft>) => void;
 
 const FIELDS_SHOWN = new Set([
-  'domain.kind', 'domain.dim', 'domain.boundaryAngle', 'target.kind', 'target.axisRatio', 'flow', 'initial.kind',
+  'domain.kind', 'domain.dim', 'domain.boundaryAngle', 'target.kind', 'target.axisRatio', 'target.uploadId', 'flow', 'initial.kind', 'initial.uploadId',
   'initial.slope', 'initial.s', 'initial.amplitude', 'initial.mode', 'symmetry', 'grid.points', 'grid.maxPoints',
   'time.tMax', 'time.maxStep', 'time.tolerance', 'stop.tension', 'stop.gradientBound',
 ]);
 
+/** The person's uploads of one kind as a select; an empty state that points to the Account page. */
+function UploadSelect({
+  label,
+  uploads,
+  uploadsError,
+  value,
+  onChange,
+  error,
+  emptyNote,
+}: {
+  label: string;
+  /** Undefined while loading. */
+  uploads: UploadInfo[] | undefined;
+  uploadsError: unknown;
+  value: string | null;
+  onChange: (id: string) => void;
+  error: string | undefined;
+  /** Said after "No uploads yet" when the person has none that fit. */
+  emptyNote?: string;
+}) {
+  if (uploadsError) {
+    return (
+      <Form.Item label={label} validateStatus="error" help="Kiln could not list your uploads; reload the page to try again.">
+        <Select disabled aria-label={label} style={{ width: 380 }} />
+      </Form.Item>
+    );
+  }
+  if (uploads && uploads.length === 0) {
+    return (
+      <Form.Item label={label} validateStatus={error ? 'error' : undefined} help={error}>
+        <p className="muted spec-form__empty-uploads">
+          No uploads yet — upload a profile on your <Link to={paths.account.getHref()}>Account page</Link>
+          {emptyNote ? ` (${emptyNote})` : ''}.
+        </p>
+      </Form.Item>
+    );
+  }
+  return (
+    <Form.Item label={label} validateStatus={error ? 'error' : undefined} help={error}>
+      <Select
+        aria-label={label}
+        loading={!uploads}
+        value={value ?? undefined}
+        placeholder={uploads ? 'Choose an upload' : 'Loading your uploads…'}
+        onChange={onChange}
+        style={{ width: 380 }}
+        options={(uploads ?? []).map((u) => {
+          const rows = uploadRows(u);
+          return { value: u.id, label: `${u.filename}${rows !== null ? ` · ${rows} rows` : ''} · ${formatDateTime(u.createdAt)}` };
+        })}
+      />
+    </Form.Item>
+  );
+}
+
 /** The base spec of a sweep (numerics.md §5), field by field, with units, ranges and the schema's messages. */
-export function SpecForm({ draft, onChange, errors }: { draft: SpecDraft; onChange: Patch; errors: FieldErrors }) {
+export function SpecForm({
+  draft,
+  onChange,
+  errors,
+  uploads,
+  uploadsError,
+}: {
+  draft: SpecDraft;
+  onChange: Patch;
+  errors: FieldErrors;
+  /** The person's uploads (`GET /api/uploads`); undefined while loading. */
+  uploads: UploadInfo[] | undefined;
+  uploadsError: unknown;
+}) {
   const ball = draft.domainKind === 'ball';
   const other = Object.entries(errors).filter(([path]) => !FIELDS_SHOWN.has(path));
   return (
@@ -54,12 +124,24 @@ export function SpecForm({ draft, onChange, errors }: { draft: SpecDraft; onChan
               options={[
                 { value: 'sphere', label: 'Round sphere' },
                 { value: 'ellipsoid', label: 'Ellipsoid' },
+                { value: 'profile', label: 'Profile (uploaded)' },
               ]}
               optionType="button"
             />
           </Form.Item>
           {draft.targetKind === 'ellipsoid' ? (
             <NumberField label="Axis ratio b" value={draft.axisRatio} onChange={(axisRatio) => onChange({ axisRatio })} hint={`${L.axisRatioMin} – ${L.axisRatioMax}`} error={errors['target.axisRatio']} />
+          ) : null}
+          {draft.targetKind === 'profile' ? (
+            <UploadSelect
+              label="Target profile"
+              uploads={uploads && targetProfileUploads(uploads)}
+              uploadsError={uploadsError}
+              value={draft.targetUploadId}
+              onChange={(targetUploadId) => onChange({ targetUploadId })}
+              error={errors['target.uploadId']}
+              emptyNote="a target profile, CSV h,f,z"
+            />
           ) : null}
         </div>
       </Card>
@@ -93,6 +175,7 @@ export function SpecForm({ draft, onChange, errors }: { draft: SpecDraft; onChan
         <div className="spec-form__row">
           <Form.Item label="Initial data h₀" validateStatus={errors['initial.kind'] ? 'error' : undefined} help={errors['initial.kind']}>
             <Select
+              aria-label="Initial data h₀"
               value={draft.initialKind}
               onChange={(initialKind) => onChange({ initialKind })}
               style={{ width: 230 }}
@@ -101,9 +184,21 @@ export function SpecForm({ draft, onChange, errors }: { draft: SpecDraft; onChan
                 { value: 'linear', label: 'Linear  h₀ = slope·r (ball)' },
                 { value: 'dilated', label: 'Dilated  h₀ = γₛ(r) (sphere)' },
                 { value: 'perturbed', label: 'Perturbed  + A·sin(k·r)' },
+                { value: 'table', label: 'Table (uploaded)' },
               ]}
             />
           </Form.Item>
+          {draft.initialKind === 'table' ? (
+            <UploadSelect
+              label={`Initial profile for the ${ball ? 'ball' : 'sphere'}`}
+              uploads={uploads && initialProfileUploads(uploads, draft.domainKind)}
+              uploadsError={uploadsError}
+              value={draft.initialUploadId}
+              onChange={(initialUploadId) => onChange({ initialUploadId })}
+              error={errors['initial.uploadId']}
+              emptyNote={`an initial profile, CSV r,h with r from 0 to ${ball ? '1' : 'π'}`}
+            />
+          ) : null}
           {draft.initialKind === 'linear' ? (
             <NumberField label="Slope" value={draft.slope} onChange={(slope) => onChange({ slope })} unit="rad" hint={`|slope| ≤ ${L.slopeMax}; 1.5π works`} error={errors['initial.slope']} />
           ) : null}

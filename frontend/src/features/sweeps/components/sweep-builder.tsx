@@ -1,14 +1,24 @@
-import { createSweepRequestSchema, expandSweep, safeParseRunSpec, sweepRunCount, type SweepPreviewRequest } from '@kiln/shared';
+import { createSweepRequestSchema, expandSweep, safeParseRunSpec, sweepRunCount, type SweepPreviewRequest, type UploadInfo } from '@kiln/shared';
 import { Alert, Button, Card, Form, Input } from 'antd';
 import { useDeferredValue, useEffect, useMemo, useState } from 'react';
 import { ApiRequestError } from '@/lib/api-client';
 import { describeError } from '@/lib/describe-error';
+import { useUploads } from '@/features/uploads/api/get-uploads';
 import { useCreateSweep } from '../api/create-sweep';
 import { useSweepPreview } from '../api/preview-sweep';
 import { AxesEditor, newAxisDraft } from './axes-editor';
 import { InitialProfileChart } from './initial-profile-chart';
 import { SpecForm } from './spec-form';
-import { DEFAULT_SPEC_DRAFT, toSpecInput, validateAxes, validateSpecDraft, type AxisDraft, type SpecDraft } from './spec-draft';
+import {
+  DEFAULT_SPEC_DRAFT,
+  initialProfileUploads,
+  toSpecInput,
+  uploadRows,
+  validateAxes,
+  validateSpecDraft,
+  type AxisDraft,
+  type SpecDraft,
+} from './spec-draft';
 import { SweepPreviewPanel } from './sweep-preview-panel';
 
 function useDebounced<T>(value: T, ms: number): T {
@@ -18,6 +28,17 @@ function useDebounced<T>(value: T, ms: number): T {
     return () => clearTimeout(timer);
   }, [value, ms]);
   return debounced;
+}
+
+/** In place of the h₀ plot when the initial data is an uploaded table. */
+function UploadedTableNote({ upload }: { upload: UploadInfo | null }) {
+  if (!upload) return <div className="chart-empty">Choose one of your uploaded initial profiles to use its table as h₀.</div>;
+  const rows = uploadRows(upload);
+  return (
+    <div className="chart-empty" data-testid="initial-table-note">
+      h₀ from your table{rows !== null ? ` (${rows} rows)` : ''}: {upload.filename}. Kiln interpolates it onto the grid when the run starts.
+    </div>
+  );
 }
 
 /**
@@ -31,8 +52,9 @@ export function SweepBuilder({ studyId, onCreated }: { studyId: string; onCreate
   const [name, setName] = useState('');
   const [nameTouched, setNameTouched] = useState(false);
   const create = useCreateSweep();
+  const uploads = useUploads();
 
-  const specErrors = useMemo(() => validateSpecDraft(draft), [draft]);
+  const specErrors = useMemo(() => validateSpecDraft(draft, uploads.data), [draft, uploads.data]);
   const axesCheck = useMemo(() => validateAxes(axes), [axes]);
   const base = useMemo(() => toSpecInput(draft), [draft]);
   const specValid = Object.keys(specErrors).length === 0;
@@ -66,6 +88,12 @@ export function SweepBuilder({ studyId, onCreated }: { studyId: string; onCreate
     const parsed = safeParseRunSpec({ ...base, grid: { points: 100 }, time: { tMax: 1 }, stop: {} });
     return parsed.success ? parsed.spec : null;
   }, [base]);
+
+  // An uploaded table is not sent back by the API, so there is nothing to draw: say which table it is.
+  const initialTable =
+    draft.initialKind === 'table' && uploads.data
+      ? initialProfileUploads(uploads.data, draft.domainKind).find((u) => u.id === draft.initialUploadId) ?? null
+      : null;
 
   const serverError = create.error ? describeError(create.error) : null;
   const serverDetails = create.error instanceof ApiRequestError ? create.error.details : [];
@@ -101,7 +129,13 @@ export function SweepBuilder({ studyId, onCreated }: { studyId: string; onCreate
             </Form.Item>
           </Form>
         </Card>
-        <SpecForm draft={draft} onChange={(patch) => setDraft((d) => ({ ...d, ...patch }))} errors={specErrors} />
+        <SpecForm
+          draft={draft}
+          onChange={(patch) => setDraft((d) => ({ ...d, ...patch }))}
+          errors={specErrors}
+          uploads={uploads.data}
+          uploadsError={uploads.error}
+        />
         <AxesEditor axes={axes} onChange={setAxes} errors={axesCheck.errors} general={axesCheck.general} />
       </div>
       <aside className="page__side builder__side">
@@ -113,7 +147,11 @@ export function SweepBuilder({ studyId, onCreated }: { studyId: string; onCreate
           blocked={blocked}
         />
         <Card title="Initial profile h₀(r)" className="panel" size="small">
-          <InitialProfileChart spec={profileSpec} />
+          {draft.initialKind === 'table' ? (
+            <UploadedTableNote upload={initialTable} />
+          ) : (
+            <InitialProfileChart spec={profileSpec} />
+          )}
         </Card>
         {serverError ? (
           <Alert
