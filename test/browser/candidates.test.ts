@@ -1,29 +1,16 @@
-import { cpSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import path from 'node:path';
-import type { Browser, Page } from 'playwright-core';
+import { readFileSync } from 'node:fs';
+import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { launchBrowser, saveScreenshot as saveFullPage } from '../support/browser';
-import { seedDemoLabForTests, type DemoCredentials } from '../support/demo-lab';
+import { saveScreenshot as saveFullPage } from '../support/browser';
+import { saveTallScreenshot, startBrowserStack, type BrowserStack, type Person } from '../support/browser-stack';
+import type { DemoCredentials } from '../support/demo-lab';
 import { waitFor } from '../support/ports';
-import { startTestRedis, type TestRedis } from '../support/redis-server';
-import { startTestApi, type TestApi } from '../support/test-api';
-import { createTestDatabase, type TestDatabase } from '../support/test-database';
-import { startWorker, stopProcesses, type WorkerProcess } from '../support/worker-harness';
+import type { TestApi } from '../support/test-api';
+import type { TestDatabase } from '../support/test-database';
 
 // Triage of a possible singularity in the browser against the real API, scheduler
 // and a real worker: the queue, the candidate's evidence plots, a verdict, and a
 // finer fork in one click with its comparison.
-
-/**
- * The built web app copied once for this file, so a rebuild of frontend/dist by
- * someone else during the run cannot swap the lazily loaded pages' files away.
- */
-function snapshotWebApp(): string {
-  const dir = mkdtempSync(path.join(tmpdir(), 'kiln-web-'));
-  cpSync('frontend/dist', dir, { recursive: true });
-  return dir;
-}
 
 /** Ball B² → S² with h₀ = 1.5π·r: blows up within seconds (numerics.md §4). */
 const BLOWUP_SPEC = {
@@ -36,42 +23,30 @@ const BLOWUP_SPEC = {
 };
 
 /** A full-page screenshot from the top, the viewport as tall as the content so the side bar reaches the bottom. */
-async function saveScreenshot(page: Page, name: string) {
-  const viewport = page.viewportSize()!;
-  await page.evaluate(() => window.scrollTo(0, 0));
-  const height = await page.evaluate(() => document.documentElement.scrollHeight);
-  await page.setViewportSize({ width: viewport.width, height: Math.max(viewport.height, height) });
-  await page.waitForTimeout(300);
-  try {
-    return await saveFullPage(page, name);
-  } finally {
-    await page.setViewportSize(viewport);
-  }
-}
+const saveScreenshot = (page: Page, name: string) => saveTallScreenshot(page, name, 300);
 
 describe('blow-up candidates in the browser', () => {
+  let stack: BrowserStack;
   let database: TestDatabase;
-  let redis: TestRedis;
   let api: TestApi;
-  let browser: Browser;
-  let webDir: string;
   let demo: DemoCredentials;
   let runId: string;
   let candidateId: string;
-  const workers: WorkerProcess[] = [];
 
   beforeAll(async () => {
-    database = await createTestDatabase();
-    demo = await seedDemoLabForTests(database.db);
-    redis = await startTestRedis();
-    webDir = snapshotWebApp();
-    api = await startTestApi(database.url, { REDIS_URL: redis.url, KILN_SCHEDULER_TICK_MS: '100', KILN_WEB_DIR: webDir });
-    workers.push(await startWorker(database.db, { databaseUrl: database.url, redisUrl: redis.url, host: 'bench-c', slots: 2, checkpointSeconds: 1 }));
-    browser = await launchBrowser();
+    // Its own redis-server and its own copy of the built app (a rebuild of frontend/dist
+    // by someone else during the run cannot swap the lazily loaded pages' files away).
+    stack = await startBrowserStack({
+      redis: 'own',
+      privateWebDir: true,
+      apiEnv: { KILN_SCHEDULER_TICK_MS: '100' },
+      workers: [{ host: 'bench-c', slots: 2, checkpointSeconds: 1 }],
+      viewport: { width: 1360, height: 860 },
+    });
+    ({ database, api, demo } = stack);
 
     // The study's owner launches a one-run sweep that blows up; the scanner flags it.
-    const login = await api.request('POST', '/api/auth/login', { body: { email: demo.postdoc.email, password: demo.postdoc.password } });
-    const token = login.body.accessToken;
+    const token = await stack.token(demo.postdoc);
     const studyId = (await api.request('GET', '/api/studies', { token })).body[0].id;
     const sweep = await api.request('POST', '/api/sweeps', { token, body: { studyId, name: 'B² at 1.5π', base: BLOWUP_SPEC, axes: [] } });
     expect(sweep.status, sweep.text).toBe(201);
@@ -87,24 +62,10 @@ describe('blow-up candidates in the browser', () => {
   }, 120_000);
 
   afterAll(async () => {
-    await browser?.close();
-    await stopProcesses(workers);
-    await api?.close();
-    await redis?.stop();
-    await database?.drop();
-    if (webDir) rmSync(webDir, { recursive: true, force: true });
+    await stack?.close();
   });
 
-  async function signedInPage(person: { email: string; password: string; name: string }): Promise<Page> {
-    const context = await browser.newContext({ viewport: { width: 1360, height: 860 } });
-    const page = await context.newPage();
-    await page.goto(`${api.baseUrl}/sign-in`);
-    await page.getByLabel('E-mail').fill(person.email);
-    await page.getByLabel('Password').fill(person.password);
-    await page.getByRole('button', { name: 'Sign in' }).click();
-    await expect.poll(() => page.getByRole('heading', { level: 1 }).first().textContent(), { timeout: 15_000 }).toContain(person.name);
-    return page;
-  }
+  const signedInPage = (person: Person) => stack.signedInPage(person);
 
   it('a researcher opens the queue, reads a candidate\'s evidence, records a verdict and forks a finer run', async () => {
     const page = await signedInPage(demo.researcher);

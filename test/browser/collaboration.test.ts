@@ -1,56 +1,29 @@
-import { cpSync, mkdtempSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import path from 'node:path';
-import type { Browser, Page } from 'playwright-core';
+import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { newPasswordSchema } from '@kiln/shared';
 import { createSmtpSink } from '../../backend/src/mail/smtp-sink';
-import { launchBrowser, saveScreenshot as saveFullPage } from '../support/browser';
-import { seedDemoLabForTests, type DemoCredentials } from '../support/demo-lab';
+import { saveScreenshot as saveFullPage } from '../support/browser';
+import { saveTallScreenshot, startBrowserStack, type BrowserStack, type Person } from '../support/browser-stack';
+import type { DemoCredentials } from '../support/demo-lab';
 import { freePort, waitFor } from '../support/ports';
-import { startTestRedis, type TestRedis } from '../support/redis-server';
-import { startTestApi, type TestApi } from '../support/test-api';
-import { createTestDatabase, type TestDatabase } from '../support/test-database';
+import type { TestApi } from '../support/test-api';
+import type { TestDatabase } from '../support/test-database';
 
 // Working with people outside the lab, in the browser against the real API and a
 // real SMTP round trip to the local sink: an invitation sent from the study page,
 // accepted from the e-mailed link by someone new, the outbox page for admins,
 // "Forgot your password?" with its e-mailed link, and the account page.
 
-/**
- * The built web app copied once for this file, so a rebuild of frontend/dist by
- * someone else during the run cannot swap the lazily loaded pages' files away.
- */
-function snapshotWebApp(): string {
-  const dir = mkdtempSync(path.join(tmpdir(), 'kiln-web-'));
-  cpSync('frontend/dist', dir, { recursive: true });
-  return dir;
-}
-
 /** A full-page screenshot from the top, the viewport as tall as the content. */
-async function saveScreenshot(page: Page, name: string) {
-  const viewport = page.viewportSize()!;
-  await page.evaluate(() => window.scrollTo(0, 0));
-  const height = await page.evaluate(() => document.documentElement.scrollHeight);
-  await page.setViewportSize({ width: viewport.width, height: Math.max(viewport.height, height) });
-  await page.waitForTimeout(200);
-  try {
-    return await saveFullPage(page, name);
-  } finally {
-    await page.setViewportSize(viewport);
-  }
-}
+const saveScreenshot = (page: Page, name: string) => saveTallScreenshot(page, name);
 
 const PUBLIC_URL = 'http://kiln.test';
 const NEWCOMER = { email: 'ada.lindqvist@elsewhere.example', name: 'Ada Lindqvist', password: 'heat-flow-on-spheres' };
 
 describe('collaboration in the browser', () => {
+  let stack: BrowserStack;
   let database: TestDatabase;
-  let redis: TestRedis;
   let api: TestApi;
-  let sink: ReturnType<typeof createSmtpSink>;
-  let browser: Browser;
-  let webDir: string;
   let demo: DemoCredentials;
   let studyId: string;
   let inviteLink: string;
@@ -77,50 +50,38 @@ describe('collaboration in the browser', () => {
   }
 
   beforeAll(async () => {
-    database = await createTestDatabase();
-    demo = await seedDemoLabForTests(database.db);
-    redis = await startTestRedis();
-    const smtpPort = await freePort();
-    sink = createSmtpSink(database.db);
-    await new Promise<void>((resolve) => sink.listen(smtpPort, '127.0.0.1', resolve));
-    webDir = snapshotWebApp();
-    api = await startTestApi(database.url, {
-      KILN_WEB_DIR: webDir,
-      REDIS_URL: redis.url,
-      KILN_SCHEDULER_TICK_MS: '100',
-      SMTP_URL: `smtp://127.0.0.1:${smtpPort}`,
-      KILN_MAIL_SINK: '1',
-      KILN_PUBLIC_URL: PUBLIC_URL,
+    // Its own redis-server, its own copy of the built app (a rebuild of frontend/dist by
+    // someone else during the run cannot swap the lazily loaded pages' files away), and
+    // the local SMTP sink writing into this file's database.
+    stack = await startBrowserStack({
+      redis: 'own',
+      privateWebDir: true,
+      apiEnv: { KILN_SCHEDULER_TICK_MS: '100', KILN_MAIL_SINK: '1', KILN_PUBLIC_URL: PUBLIC_URL },
+      beforeApi: async ({ database }) => {
+        const smtpPort = await freePort();
+        const sink = createSmtpSink(database.db);
+        await new Promise<void>((resolve) => sink.listen(smtpPort, '127.0.0.1', resolve));
+        return {
+          env: { SMTP_URL: `smtp://127.0.0.1:${smtpPort}` },
+          close: () => new Promise<void>((resolve) => sink.close(() => resolve())),
+        };
+      },
     });
-    browser = await launchBrowser();
-    const login = await api.request('POST', '/api/auth/login', { body: { email: demo.postdoc.email, password: demo.postdoc.password } });
-    const token = login.body.accessToken;
+    ({ database, api, demo } = stack);
+    const token = await stack.token(demo.postdoc);
     studyId = (await api.request('GET', '/api/studies', { token })).body[0].id;
     // A second study of the same owner that the newcomer must never see.
     await api.request('POST', '/api/studies', { token, body: { name: 'Private: B³ blow-up thresholds' } });
   }, 60_000);
 
   afterAll(async () => {
-    await browser?.close();
-    await api?.close();
-    await new Promise<void>((resolve) => (sink ? sink.close(() => resolve()) : resolve()));
-    await redis?.stop();
-    await database?.drop();
-    if (webDir) rmSync(webDir, { recursive: true, force: true });
+    await stack?.close();
   });
 
-  async function newPage(): Promise<Page> {
-    const context = await browser.newContext({ viewport: { width: 1280, height: 800 } });
-    return context.newPage();
-  }
+  const newPage = () => stack.newPage();
 
-  async function signIn(page: Page, person: { email: string; password: string; name: string }) {
-    await page.goto(`${api.baseUrl}/sign-in`);
-    await page.getByLabel('E-mail').fill(person.email);
-    await page.getByLabel('Password').fill(person.password);
-    await page.getByRole('button', { name: 'Sign in' }).click();
-    await expect.poll(() => page.getByRole('heading', { level: 1 }).first().textContent(), { timeout: 15_000 }).toContain(person.name);
-  }
+  /** Signs in through the sign-in page and waits for the person's name in the heading. */
+  const signIn = (page: Page, person: Person) => stack.signIn(page, person);
 
   it('the owner invites an e-mail from the study page; the newcomer accepts from the mailed link and sees that study only', async () => {
     const owner = await newPage();

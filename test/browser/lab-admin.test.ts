@@ -1,13 +1,12 @@
 import { quotaSchema } from '@kiln/shared';
 import { sql } from 'kysely';
-import type { Browser, BrowserContext, Page } from 'playwright-core';
+import type { BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { launchBrowser, saveScreenshot as saveFullPage } from '../support/browser';
-import { seedDemoLabForTests, type DemoCredentials } from '../support/demo-lab';
-import { startTestApi, type TestApi } from '../support/test-api';
-import { createTestDatabase, type TestDatabase } from '../support/test-database';
+import { saveTallScreenshot, startBrowserStack, type BrowserStack } from '../support/browser-stack';
+import type { DemoCredentials } from '../support/demo-lab';
+import type { TestApi } from '../support/test-api';
+import type { TestDatabase } from '../support/test-database';
 import { QUICK_SPHERE_SPEC } from '../support/specs';
-import { testEnv } from '../support/test-env';
 
 // The lab admin's pages in the browser against the real API: quotas edited
 // inline and persisted, the audit log with before and after, a bad value stopped
@@ -15,35 +14,22 @@ import { testEnv } from '../support/test-env';
 // and what a researcher is told on these pages.
 
 /** A full-page screenshot from the top, the viewport as tall as the content so the side bar reaches the bottom. */
-async function saveScreenshot(page: Page, name: string) {
-  const viewport = page.viewportSize()!;
-  await page.evaluate(() => window.scrollTo(0, 0));
-  const height = await page.evaluate(() => document.documentElement.scrollHeight);
-  await page.setViewportSize({ width: viewport.width, height: Math.max(viewport.height, height) });
-  await page.waitForTimeout(200);
-  try {
-    return await saveFullPage(page, name);
-  } finally {
-    await page.setViewportSize(viewport);
-  }
-}
+const saveScreenshot = (page: Page, name: string) => saveTallScreenshot(page, name);
 
 describe('the lab admin pages in the browser', () => {
+  let stack: BrowserStack;
   let database: TestDatabase;
   let api: TestApi;
-  let browser: Browser;
   let demo: DemoCredentials;
   let researcherId: string;
   let heldRunId: string;
   let adminToken: string;
 
   beforeAll(async () => {
-    database = await createTestDatabase();
-    demo = await seedDemoLabForTests(database.db);
     // A Redis logical database of this file's own. No scheduler: no worker computes here, and its
     // reconciler would hand the run "held" by the inserted worker back to the queue.
-    api = await startTestApi(database.url, { REDIS_URL: `${testEnv.redisUrl}/9`, KILN_SCHEDULER: '0' });
-    browser = await launchBrowser();
+    stack = await startBrowserStack({ redis: 9, apiEnv: { KILN_SCHEDULER: '0' } });
+    ({ database, api, demo } = stack);
 
     const people = await database.db.selectFrom('users').select(['id', 'email']).execute();
     const idOf = (email: string) => people.find((p) => p.email === email)!.id;
@@ -84,32 +70,22 @@ describe('the lab admin pages in the browser', () => {
       await database.db.insertInto('cpu_usage').values({ user_id: idOf(email), month: month(back), cpu_seconds: hours * 3600 }).execute();
     }
 
-    const login = await api.request('POST', '/api/auth/login', { body: { email: demo.admin.email, password: demo.admin.password } });
-    adminToken = login.body.accessToken;
+    adminToken = await stack.token(demo.admin);
   }, 60_000);
 
   afterAll(async () => {
-    await browser?.close();
-    await api?.close();
-    await database?.drop();
+    await stack?.close();
   });
 
   /** Signed in through the sign-in page once per person; later pages start from that browser storage. */
   const sessions = new Map<keyof DemoCredentials, Awaited<ReturnType<BrowserContext['storageState']>>>();
   async function signedIn(who: keyof DemoCredentials): Promise<Page> {
     const stored = sessions.get(who);
-    const context = await browser.newContext({ viewport: { width: 1280, height: 800 }, storageState: stored });
-    const page = await context.newPage();
-    if (stored) {
-      await page.goto(api.baseUrl);
-    } else {
-      await page.goto(`${api.baseUrl}/sign-in`);
-      await page.getByLabel('E-mail').fill(demo[who].email);
-      await page.getByLabel('Password').fill(demo[who].password);
-      await page.getByRole('button', { name: 'Sign in' }).click();
-    }
+    const page = await stack.newPage({ storageState: stored });
+    if (stored) await page.goto(api.baseUrl);
+    else await stack.signIn(page, demo[who], { waitForName: false });
     await page.getByRole('button', { name: 'Sign out' }).waitFor({ timeout: 15_000 });
-    if (!stored) sessions.set(who, await context.storageState());
+    if (!stored) sessions.set(who, await page.context().storageState());
     return page;
   }
 

@@ -1,12 +1,10 @@
 import { readFileSync } from 'node:fs';
-import type { Browser, Page } from 'playwright-core';
+import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { launchBrowser, saveScreenshot as saveFullPage } from '../support/browser';
-import { seedDemoLabForTests, type DemoCredentials } from '../support/demo-lab';
-import { startTestApi, type TestApi } from '../support/test-api';
-import { createTestDatabase, type TestDatabase } from '../support/test-database';
-import { testEnv } from '../support/test-env';
-import { startWorker, stopProcesses, type WorkerProcess } from '../support/worker-harness';
+import { saveScreenshot as saveFullPage } from '../support/browser';
+import { saveTallScreenshot, startBrowserStack, type BrowserStack, type Person } from '../support/browser-stack';
+import type { DemoCredentials } from '../support/demo-lab';
+import type { TestApi } from '../support/test-api';
 
 // The whole research workflow in the browser against the real API, scheduler and
 // two real worker processes: build a sweep, watch it finish, read the outcome
@@ -33,63 +31,34 @@ const LONG_SPEC = {
 };
 
 /** A full-page screenshot from the top of the page (the shell's sticky header and side bar draw where they belong). */
-async function saveScreenshot(page: Page, name: string) {
-  const viewport = page.viewportSize()!;
-  await page.evaluate(() => window.scrollTo(0, 0));
-  const height = await page.evaluate(() => document.documentElement.scrollHeight);
-  // The page as tall as its content, so 100vh-high pieces (the side bar) reach the bottom.
-  await page.setViewportSize({ width: viewport.width, height: Math.max(viewport.height, height) });
-  await page.waitForTimeout(200);
-  try {
-    return await saveFullPage(page, name);
-  } finally {
-    await page.setViewportSize(viewport);
-  }
-}
+const saveScreenshot = (page: Page, name: string) => saveTallScreenshot(page, name);
 
 describe('the research workflow in the browser', () => {
-  let database: TestDatabase;
+  let stack: BrowserStack;
   let api: TestApi;
-  let browser: Browser;
   let demo: DemoCredentials;
   let studyId: string;
   let postdocToken: string;
-  const workers: WorkerProcess[] = [];
-  // A Redis logical database of this file's own, so no other test file shares its queue.
-  const redisUrl = `${testEnv.redisUrl}/7`;
 
   beforeAll(async () => {
-    database = await createTestDatabase();
-    demo = await seedDemoLabForTests(database.db);
-    api = await startTestApi(database.url, { REDIS_URL: redisUrl, KILN_SCHEDULER_TICK_MS: '200' });
-    for (const host of ['bench-a', 'bench-b']) {
-      workers.push(await startWorker(database.db, { databaseUrl: database.url, redisUrl, host, slots: 2, checkpointSeconds: 2 }));
-    }
-    browser = await launchBrowser();
-    const login = await api.request('POST', '/api/auth/login', { body: { email: demo.postdoc.email, password: demo.postdoc.password } });
-    postdocToken = login.body.accessToken;
+    // A Redis logical database of this file's own, so no other test file shares its queue.
+    stack = await startBrowserStack({
+      redis: 7,
+      apiEnv: { KILN_SCHEDULER_TICK_MS: '200' },
+      workers: ['bench-a', 'bench-b'].map((host) => ({ host, slots: 2, checkpointSeconds: 2 })),
+    });
+    ({ api, demo } = stack);
+    postdocToken = await stack.token(demo.postdoc);
     const studies = await api.request('GET', '/api/studies', { token: postdocToken });
     studyId = studies.body[0].id;
   }, 90_000);
 
   afterAll(async () => {
-    await browser?.close();
-    await stopProcesses(workers);
-    await api?.close();
-    await database?.drop();
+    await stack?.close();
   });
 
-  async function signedInPage(person: { email: string; password: string; name: string }): Promise<Page> {
-    const context = await browser.newContext({ viewport: { width: 1280, height: 800 } });
-    const page = await context.newPage();
-    await page.goto(api.baseUrl);
-    await page.waitForURL(/\/sign-in/);
-    await page.getByLabel('E-mail').fill(person.email);
-    await page.getByLabel('Password').fill(person.password);
-    await page.getByRole('button', { name: 'Sign in' }).click();
-    await expect.poll(() => page.getByRole('heading', { level: 1 }).first().textContent(), { timeout: 15_000 }).toContain(person.name);
-    return page;
-  }
+  /** A fresh page: the app sends it to the sign-in page, and the person signs in there. */
+  const signedInPage = (person: Person) => stack.signedInPage(person, { startAt: '/' });
 
   async function openBuilder(page: Page, screenshots = false) {
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Studies' }).click();

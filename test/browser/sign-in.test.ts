@@ -1,39 +1,28 @@
-import type { Browser, Page } from 'playwright-core';
+import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { launchBrowser, saveScreenshot } from '../support/browser';
-import { seedDemoLabForTests, type DemoCredentials } from '../support/demo-lab';
-import { startTestApi, type TestApi } from '../support/test-api';
-import { createTestDatabase, type TestDatabase } from '../support/test-database';
+import { saveScreenshot } from '../support/browser';
+import { startBrowserStack, type BrowserStack } from '../support/browser-stack';
+import type { DemoCredentials } from '../support/demo-lab';
+import type { TestApi } from '../support/test-api';
 
 describe('signing in and out in the browser', () => {
-  let database: TestDatabase;
+  let stack: BrowserStack;
   let api: TestApi;
-  let browser: Browser;
   let demo: DemoCredentials;
 
   beforeAll(async () => {
-    database = await createTestDatabase();
-    demo = await seedDemoLabForTests(database.db);
-    api = await startTestApi(database.url);
-    browser = await launchBrowser();
+    stack = await startBrowserStack();
+    ({ api, demo } = stack);
   });
   afterAll(async () => {
-    await browser?.close();
-    await api?.close();
-    await database?.drop();
+    await stack?.close();
   });
 
-  async function newPage(): Promise<Page> {
-    const context = await browser.newContext({ viewport: { width: 1280, height: 800 } });
-    return context.newPage();
-  }
+  const newPage = () => stack.newPage();
 
+  /** Opens the app, expects to be sent to the sign-in page, and submits the form (the outcome is each test's to check). */
   async function signIn(page: Page, email: string, password: string) {
-    await page.goto(api.baseUrl);
-    await page.waitForURL(/\/sign-in/);
-    await page.getByLabel('E-mail').fill(email);
-    await page.getByLabel('Password').fill(password);
-    await page.getByRole('button', { name: 'Sign in' }).click();
+    await stack.signIn(page, { email, password }, { startAt: '/', waitForName: false });
   }
 
   it('a researcher signs in, sees the overview with their name and no admin pages, and signs out', async () => {

@@ -86,7 +86,7 @@ describe('uploaded profiles in the sweep builder', () => {
     await page.waitForURL(/\/sweeps\/[0-9a-f-]{36}$/);
     const sweepId = page.url().split('/').pop()!;
     await page.getByRole('heading', { name: 'Uploaded h₀ into an uploaded ellipsoid' }).waitFor();
-    await expect.poll(() => page.locator('.state-bar__done').first().textContent(), { timeout: 60_000, intervals: [500] }).toBe('1 of 1 done');
+    await expect.poll(() => page.locator('.state-bar__done').first().textContent(), { timeout: 60_000, interval: 500 }).toBe('1 of 1 done');
     await page.getByRole('cell', { name: 'Converged' }).first().waitFor();
 
     // The run carries the two uploads and finished converged.
