@@ -56,7 +56,8 @@ function UploadSelect({
       <Select
         aria-label={label}
         loading={!uploads}
-        value={value ?? undefined}
+        // An upload that no longer fits (another domain) is not shown as a raw id; the error under the field says why.
+        value={value !== null && uploads?.some((u) => u.id === value) ? value : undefined}
         placeholder={uploads ? 'Choose an upload' : 'Loading your uploads…'}
         onChange={onChange}
         style={{ width: 380 }}
