@@ -1,7 +1,6 @@
 import { Alert, Button, Skeleton, Typography } from 'antd';
-import type { ReactNode } from 'react';
 import { Link, useLocation, useNavigate, useSearchParams } from 'react-router-dom';
-import { KilnWordmark } from '@/components/kiln-mark';
+import { PublicFrame } from '@/components/public-frame';
 import { paths } from '@/config/paths';
 import { useToken } from '@/features/auth/hooks/use-session';
 import { useAcceptInvitationSignedIn, useInvitationPreview } from '@/features/invitations/api/accept-invitation';
@@ -11,31 +10,6 @@ import { ApiRequestError } from '@/lib/api-client';
 import { describeError } from '@/lib/describe-error';
 import { formatDateTime } from '@/lib/format';
 import '@/features/invitations/components/invitations.css';
-
-/** The public frame of pages reached from an e-mailed link (the sign-in page's look). */
-function PublicFrame({ title, children }: { title: string; children: ReactNode }) {
-  return (
-    <div className="sign-in">
-      <title>{`${title} · Kiln`}</title>
-      <aside className="sign-in__brand">
-        <KilnWordmark inverted size={34} />
-        <p className="sign-in__pitch">
-          Kiln is a lab&apos;s place to run long harmonic map heat flow simulations on shared workers, keep every run
-          checkpointed, and judge possible blow-ups with the evidence in front of you.
-        </p>
-        <p className="sign-in__fineprint">Numerical results are evidence, not proof.</p>
-      </aside>
-      <main className="sign-in__main">
-        <div className="sign-in__card">
-          <Typography.Title level={1} className="sign-in__title">
-            {title}
-          </Typography.Title>
-          {children}
-        </div>
-      </main>
-    </div>
-  );
-}
 
 /** What a refused link means and what to do about it. */
 function LinkProblem({ error }: { error: unknown }) {
